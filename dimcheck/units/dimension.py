@@ -1,0 +1,119 @@
+"""Dimension vectors: exact rational exponents over named base dimensions.
+
+A dimension is stored as a sorted tuple of ``(base_name, Fraction)`` pairs with
+the zero exponents left out, so two equal dimensions are equal tuples and hash
+alike. Base names are pint's without brackets (``length``, ``mass``, ...); the
+configuration may add more (``base-dimensions``), which simply appear as new names.
+"""
+
+from __future__ import annotations
+
+from fractions import Fraction
+from typing import Iterable, Mapping
+
+# SI's seven base dimensions, in the order engineers write them, with their symbols
+# (SI Brochure, 9th edition, section 2.3.3).
+SI_BASE_DIMENSIONS: tuple[tuple[str, str], ...] = (
+    ("mass", "M"),
+    ("length", "L"),
+    ("time", "T"),
+    ("temperature", "Θ"),
+    ("current", "I"),
+    ("substance", "N"),
+    ("luminosity", "J"),
+)
+_SYMBOL = dict(SI_BASE_DIMENSIONS)
+_ORDER = {name: index for index, (name, _) in enumerate(SI_BASE_DIMENSIONS)}
+
+
+def _sort_key(name: str) -> tuple[int, str]:
+    return (_ORDER.get(name, len(_ORDER)), name)
+
+
+class Dimension:
+    """An immutable product of base dimensions raised to rational powers."""
+
+    __slots__ = ("exponents", "_hash")
+
+    def __init__(self, exponents: Iterable[tuple[str, Fraction]] = ()):
+        cleaned = {}
+        for name, power in exponents:
+            power = Fraction(power)
+            if power:
+                cleaned[name] = cleaned.get(name, Fraction(0)) + power
+        self.exponents: tuple[tuple[str, Fraction], ...] = tuple(
+            sorted(((n, p) for n, p in cleaned.items() if p), key=lambda item: _sort_key(item[0]))
+        )
+        self._hash = hash(self.exponents)
+
+    @classmethod
+    def from_mapping(cls, mapping: Mapping[str, object]) -> "Dimension":
+        """Build from ``{"length": 1, "time": -1}``; brackets around names are dropped."""
+        return cls((name.strip("[]"), Fraction(str(power))) for name, power in mapping.items())
+
+    @classmethod
+    def base(cls, name: str) -> "Dimension":
+        return cls(((name, Fraction(1)),))
+
+    # -- algebra -----------------------------------------------------------------
+    def __mul__(self, other: "Dimension") -> "Dimension":
+        if not other.exponents:
+            return self
+        if not self.exponents:
+            return other
+        return Dimension(self.exponents + other.exponents)
+
+    def __truediv__(self, other: "Dimension") -> "Dimension":
+        if not other.exponents:
+            return self
+        return Dimension(self.exponents + tuple((n, -p) for n, p in other.exponents))
+
+    def __pow__(self, power: Fraction | int) -> "Dimension":
+        power = Fraction(power)
+        return Dimension((n, p * power) for n, p in self.exponents)
+
+    def inverse(self) -> "Dimension":
+        return Dimension((n, -p) for n, p in self.exponents)
+
+    @property
+    def is_dimensionless(self) -> bool:
+        return not self.exponents
+
+    def as_dict(self) -> dict[str, Fraction]:
+        return dict(self.exponents)
+
+    # -- identity ------------------------------------------------------------------
+    def __eq__(self, other: object) -> bool:
+        return isinstance(other, Dimension) and self.exponents == other.exponents
+
+    def __hash__(self) -> int:
+        return self._hash
+
+    def __repr__(self) -> str:
+        return f"Dimension({self.format()})"
+
+    # -- display -------------------------------------------------------------------
+    def format(self) -> str:
+        """Engineer's notation, such as ``L T^-1`` or ``M L^-1 T^-2``; ``1`` when dimensionless."""
+        if not self.exponents:
+            return "1"
+        parts = []
+        for name, power in self.exponents:
+            symbol = _SYMBOL.get(name, name)
+            if power == 1:
+                parts.append(symbol)
+            elif power.denominator == 1:
+                parts.append(f"{symbol}^{power.numerator}")
+            else:
+                parts.append(f"{symbol}^({power})")
+        return " ".join(parts)
+
+    def to_json(self) -> dict[str, str]:
+        return {name: str(power) for name, power in self.exponents}
+
+    @classmethod
+    def from_json(cls, data: Mapping[str, str]) -> "Dimension":
+        return cls((name, Fraction(power)) for name, power in data.items())
+
+
+DIMENSIONLESS = Dimension()
