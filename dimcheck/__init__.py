@@ -1,0 +1,39 @@
+"""dimcheck: static checking of unit and dimension consistency in Python engineering code.
+
+The public surface is small: ``check_paths`` and ``check_source`` run the pipeline and
+return findings; everything else is internal and may change.
+"""
+
+from __future__ import annotations
+
+__version__ = "0.1.0"
+
+__all__ = ["__version__", "check_paths", "check_source"]
+
+
+def check_paths(paths, config=None, select=None, ignore=None):
+    """Check files and folders; returns a ``Report`` (files_checked, findings, errors)."""
+    from .runner import check_paths as run
+
+    return run(list(paths), config, select, ignore)
+
+
+def check_source(source: str, filename: str = "snippet.py", config=None, select=None, ignore=None):
+    """Check one piece of source text as if it were a file; returns the list of findings."""
+    import os
+    import tempfile
+
+    from .runner import Checker
+
+    with tempfile.TemporaryDirectory(prefix="dimcheck-") as folder:
+        path = os.path.join(folder, filename)
+        with open(path, "w", encoding="utf-8") as handle:
+            handle.write(source)
+        findings = Checker(config, select, ignore).check_files([path])
+    return [_relabel(finding, filename) for finding in findings]
+
+
+def _relabel(finding, filename):
+    from dataclasses import replace
+
+    return replace(finding, path=filename)

@@ -1,0 +1,1 @@
+"""The command line, configuration and file discovery."""

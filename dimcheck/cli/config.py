@@ -1,0 +1,155 @@
+"""``[tool.dimcheck]`` configuration: where it is found, what it may say, and its validation.
+
+Every unknown key or bad value is a ``ConfigError`` with a one-line message naming the
+key and the file; the command line turns it into exit code 2.
+"""
+
+from __future__ import annotations
+
+import re
+import sys
+from dataclasses import dataclass, field
+from pathlib import Path
+
+if sys.version_info >= (3, 11):
+    import tomllib
+else:  # pragma: no cover - the package requires 3.11, kept for older tooling
+    import tomli as tomllib
+
+from ..rules.registry import matching_codes
+
+
+class ConfigError(Exception):
+    """A configuration problem, one line, naming the file and the key."""
+
+
+@dataclass
+class Config:
+    source: Path | None = None  # the file the settings came from, None for defaults
+    paths: list[str] = field(default_factory=list)
+    exclude: list[str] = field(default_factory=list)
+    select: list[str] = field(default_factory=list)  # codes; empty means all
+    ignore: list[str] = field(default_factory=list)
+    fail_on: str = "error"
+    units: list[Path] = field(default_factory=list)
+    stubs: list[Path] = field(default_factory=list)
+    base_dimensions: list[str] = field(default_factory=list)
+    docstring_units: bool = True
+    suffix_units: bool = False
+    name_units: dict[str, str] = field(default_factory=dict)
+
+    @property
+    def base_dir(self) -> Path:
+        return self.source.parent if self.source else Path.cwd()
+
+
+_LIST_OF_STRINGS = ("paths", "exclude", "select", "ignore", "units", "stubs", "base-dimensions")
+_KNOWN_KEYS = set(_LIST_OF_STRINGS) | {"fail-on", "docstring-units", "suffix-units", "name-units"}
+_IDENTIFIER = re.compile(r"^[A-Za-z_][A-Za-z0-9_]*$")
+
+
+def find_config(start: Path) -> Path | None:
+    """The nearest pyproject.toml with a ``[tool.dimcheck]`` table, from ``start`` upwards."""
+    for folder in [start, *start.parents]:
+        candidate = folder / "pyproject.toml"
+        if candidate.is_file():
+            try:
+                data = tomllib.loads(candidate.read_text(encoding="utf-8"))
+            except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError):
+                continue
+            if isinstance(data.get("tool"), dict) and "dimcheck" in data["tool"]:
+                return candidate
+    return None
+
+
+def load_config(explicit: str | None = None, start: Path | None = None) -> Config:
+    if explicit is not None:
+        path = Path(explicit)
+        if not path.is_file():
+            raise ConfigError(f"{explicit}: configuration file not found")
+    else:
+        path = find_config(start or Path.cwd())
+        if path is None:
+            return Config()
+    try:
+        data = tomllib.loads(path.read_text(encoding="utf-8"))
+    except UnicodeDecodeError:
+        raise ConfigError(f"{path}: not valid UTF-8") from None
+    except OSError as error:
+        raise ConfigError(f"{path}: cannot read: {error.strerror or error}") from None
+    except tomllib.TOMLDecodeError as error:
+        raise ConfigError(f"{path}: invalid TOML: {error}") from None
+    tool = data.get("tool")
+    if isinstance(tool, dict) and "dimcheck" in tool:
+        table = tool["dimcheck"]
+    elif path.name == "pyproject.toml":
+        table = {}
+    else:
+        table = data  # a standalone file holds the keys at its top level
+    if not isinstance(table, dict):
+        raise ConfigError(f"{path}: [tool.dimcheck] must be a table")
+    return validate(table, path)
+
+
+def _where(path: Path, key: str) -> str:
+    return f"{path}: [tool.dimcheck] {key}"
+
+
+def parse_codes(values: list[str], where: str) -> list[str]:
+    codes: list[str] = []
+    for value in values:
+        found = matching_codes(value)
+        if not value.strip() or not found:
+            raise ConfigError(f"{where}: unknown rule code {value!r}")
+        codes.extend(code for code in found if code not in codes)
+    return codes
+
+
+def validate(table: dict, path: Path) -> Config:
+    config = Config(source=path)
+    base = path.parent
+    for key, value in table.items():
+        if key not in _KNOWN_KEYS:
+            known = ", ".join(sorted(_KNOWN_KEYS))
+            raise ConfigError(f"{path}: unknown key {key!r} in [tool.dimcheck] (known keys: {known})")
+        where = _where(path, key)
+        if key in _LIST_OF_STRINGS:
+            if isinstance(value, str):
+                value = [value]
+            if not isinstance(value, list) or not all(isinstance(item, str) for item in value):
+                raise ConfigError(f"{where}: expected a list of strings, got {value!r}")
+        if key == "paths":
+            config.paths = [str(base / item) for item in value]
+        elif key == "exclude":
+            config.exclude = list(value)
+        elif key in ("select", "ignore"):
+            setattr(config, key, parse_codes(value, where))
+        elif key == "fail-on":
+            if value not in ("error", "warning"):
+                raise ConfigError(f"{where}: expected \"error\" or \"warning\", got {value!r}")
+            config.fail_on = value
+        elif key in ("units", "stubs"):
+            resolved = []
+            for item in value:
+                item_path = base / item
+                exists = item_path.is_file() if key == "units" else item_path.is_dir()
+                if not exists:
+                    kind = "file" if key == "units" else "folder"
+                    raise ConfigError(f"{where}: {kind} not found: {item}")
+                resolved.append(item_path)
+            setattr(config, key, resolved)
+        elif key == "base-dimensions":
+            for item in value:
+                if not _IDENTIFIER.match(item.strip("[]")):
+                    raise ConfigError(f"{where}: not a dimension name: {item!r}")
+            config.base_dimensions = [item.strip("[]") for item in value]
+        elif key in ("docstring-units", "suffix-units"):
+            if not isinstance(value, bool):
+                raise ConfigError(f"{where}: expected true or false, got {value!r}")
+            setattr(config, key.replace("-", "_"), value)
+        elif key == "name-units":
+            if not isinstance(value, dict) or not all(
+                    isinstance(k, str) and isinstance(v, str) for k, v in value.items()):
+                raise ConfigError(f"{where}: expected a table of pattern = \"unit\" strings")
+            config.name_units = dict(value)
+    return config

@@ -1,0 +1,112 @@
+"""The command line: ``dimcheck check [PATH ...]`` and friends.
+
+Exit codes: 0 no finding at or above the fail level, 1 at least one, 2 when dimcheck
+itself could not do its job (bad option, bad configuration, unreadable path, internal
+error). Every such error is one line on stderr, never a traceback.
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import sys
+
+from .. import __version__
+from ..rules.registry import RULES
+from .config import ConfigError, load_config, parse_codes
+
+EXIT_CLEAN, EXIT_FINDINGS, EXIT_TROUBLE = 0, 1, 2
+
+
+class UsageError(Exception):
+    pass
+
+
+class _Parser(argparse.ArgumentParser):
+    def error(self, message: str):  # one line, exit 2, instead of argparse's usage block
+        raise UsageError(message)
+
+
+def _codes_option(text: str) -> list[str]:
+    return [part for part in text.split(",") if part.strip()]
+
+
+def build_parser() -> argparse.ArgumentParser:
+    parser = _Parser(prog="dimcheck", description="Static unit and dimension checks for Python code.")
+    parser.add_argument("--version", action="version", version=f"dimcheck {__version__}")
+    commands = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+
+    check = commands.add_parser("check", help="check files and folders for unit mistakes")
+    check.add_argument("paths", nargs="*", metavar="PATH")
+    check.add_argument("--format", choices=("text", "json", "sarif"), default="text")
+    check.add_argument("--select", type=_codes_option, metavar="CODES",
+                       help="comma-separated codes or prefixes to report (default: all)")
+    check.add_argument("--ignore", type=_codes_option, metavar="CODES",
+                       help="comma-separated codes or prefixes not to report")
+    check.add_argument("--config", metavar="FILE", help="a pyproject.toml or TOML file to read settings from")
+    check.add_argument("--jobs", type=int, default=0, metavar="N",
+                       help="worker processes (default: the number of cores)")
+    check.add_argument("--no-cache", action="store_true", help="neither read nor write the result cache")
+    check.add_argument("--fail-on", choices=("error", "warning"), default=None,
+                       help="lowest severity that makes the exit code 1 (default: error)")
+
+    commands.add_parser("rules", help="list the rule codes")
+    return parser
+
+
+def _run_check(args) -> int:
+    from ..runner import check_paths  # imported here so `dimcheck --version` stays instant
+    from ..reports import FORMATS
+
+    config = load_config(args.config)
+    select = parse_codes(args.select, "--select") if args.select is not None else None
+    ignore = parse_codes(args.ignore, "--ignore") if args.ignore is not None else None
+    if args.jobs < 0:
+        raise UsageError("--jobs must be 0 (all cores) or a positive number")
+    paths = args.paths or config.paths or ["."]
+    report = check_paths(paths, config, select, ignore)
+    for error in report.errors:
+        print(f"dimcheck: error: {error}", file=sys.stderr)
+    sys.stdout.write(FORMATS[args.format](report))
+    if report.errors:
+        return EXIT_TROUBLE
+    return EXIT_FINDINGS if report.fails(args.fail_on or config.fail_on) else EXIT_CLEAN
+
+
+def _run_rules() -> int:
+    for rule in RULES.values():
+        print(f"{rule.code}  {rule.name:<22} {rule.severity:<8} {rule.summary}")
+    return EXIT_CLEAN
+
+
+def main(argv: list[str] | None = None) -> int:
+    if hasattr(sys.stdout, "reconfigure"):
+        sys.stdout.reconfigure(errors="backslashreplace")
+    parser = build_parser()
+    try:
+        args = parser.parse_args(argv)
+        if args.command == "check":
+            return _run_check(args)
+        if args.command == "rules":
+            return _run_rules()
+        parser.print_help()
+        return EXIT_TROUBLE
+    except (UsageError, ConfigError) as error:
+        print(f"dimcheck: error: {error}", file=sys.stderr)
+        return EXIT_TROUBLE
+    except KeyboardInterrupt:
+        print("dimcheck: interrupted", file=sys.stderr)
+        return EXIT_TROUBLE
+    except BrokenPipeError:
+        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+        return EXIT_TROUBLE
+    except Exception as error:  # a bug of ours: still one line and exit 2, never a traceback
+        if os.environ.get("DIMCHECK_DEBUG"):
+            raise
+        print(f"dimcheck: internal error: {type(error).__name__}: {error} "
+              f"(set DIMCHECK_DEBUG=1 for details)", file=sys.stderr)
+        return EXIT_TROUBLE
+
+
+if __name__ == "__main__":
+    sys.exit(main())

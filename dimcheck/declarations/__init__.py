@@ -1,0 +1,1 @@
+"""Declarations: where source code states units (annotations, comments, stubs)."""

@@ -1,0 +1,103 @@
+"""Reading unit declarations out of type annotations (PEP 593 ``Annotated``).
+
+``Annotated[float, "kg/m^3"]`` and ``Annotated[float, Unit("kg/m^3")]`` declare a unit.
+A bare name (``Density``) or dotted name (``units.Density``) may be an alias of such an
+annotation; the caller resolves it against the module's aliases and imports.
+``Optional[...]`` and ``X | None`` around a declaration are looked through.
+"""
+
+from __future__ import annotations
+
+import ast
+from dataclasses import dataclass
+
+
+@dataclass(frozen=True, slots=True)
+class UnitText:
+    """A unit expression written in source, with where it stands."""
+
+    text: str
+    node: ast.AST  # the string literal, for the location of a DIM901
+
+
+@dataclass(frozen=True, slots=True)
+class AliasRef:
+    """A name that may refer to an ``Annotated`` alias: ``Density`` or ``units.Density``."""
+
+    parts: tuple[str, ...]
+
+
+def _name_of(node: ast.AST) -> str | None:
+    if isinstance(node, ast.Name):
+        return node.id
+    if isinstance(node, ast.Attribute):
+        return node.attr
+    return None
+
+
+def _dotted(node: ast.AST) -> tuple[str, ...] | None:
+    parts: list[str] = []
+    while isinstance(node, ast.Attribute):
+        parts.append(node.attr)
+        node = node.value
+    if isinstance(node, ast.Name):
+        parts.append(node.id)
+        return tuple(reversed(parts))
+    return None
+
+
+def _unit_in_metadata(item: ast.AST) -> UnitText | None:
+    if isinstance(item, ast.Constant) and isinstance(item.value, str):
+        return UnitText(item.value, item)
+    if (isinstance(item, ast.Call) and _name_of(item.func) == "Unit" and item.args
+            and isinstance(item.args[0], ast.Constant) and isinstance(item.args[0].value, str)):
+        return UnitText(item.args[0].value, item.args[0])
+    return None
+
+
+def read_annotation(node: ast.AST | None, _depth: int = 0) -> UnitText | AliasRef | None:
+    """The unit declared by an annotation expression, an alias to resolve, or None."""
+    if node is None or _depth > 8:
+        return None
+    if isinstance(node, ast.Constant) and isinstance(node.value, str):
+        # A string annotation (forward reference): parse it as an expression, never run it.
+        if len(node.value) > 2000:
+            return None
+        try:
+            inner = ast.parse(node.value, mode="eval").body
+        except (SyntaxError, ValueError, RecursionError, MemoryError):
+            return None
+        return read_annotation(inner, _depth + 1)
+    if isinstance(node, ast.Subscript):
+        head = _name_of(node.value)
+        if head == "Annotated":
+            elements = node.slice.elts if isinstance(node.slice, ast.Tuple) else [node.slice]
+            for item in elements[1:]:
+                found = _unit_in_metadata(item)
+                if found is not None:
+                    return found
+            return read_annotation(elements[0], _depth + 1) if elements else None
+        if head in ("Optional", "Final", "ClassVar"):
+            return read_annotation(node.slice, _depth + 1)
+        if head == "Union" and isinstance(node.slice, ast.Tuple):
+            return _first_of_union(node.slice.elts, _depth)
+        return None
+    if isinstance(node, ast.BinOp) and isinstance(node.op, ast.BitOr):
+        return _first_of_union([node.left, node.right], _depth)
+    if isinstance(node, (ast.Name, ast.Attribute)):
+        parts = _dotted(node)
+        return AliasRef(parts) if parts else None
+    return None
+
+
+def _first_of_union(members, depth: int):
+    real = [m for m in members if not (isinstance(m, ast.Constant) and m.value is None)
+            and not (isinstance(m, ast.Name) and m.id == "None")]
+    if len(real) != 1:
+        return None
+    return read_annotation(real[0], depth + 1)
+
+
+def is_alias_definition(value: ast.AST) -> bool:
+    """Whether a module-level assignment's value looks like a unit alias."""
+    return isinstance(read_annotation(value), UnitText)

@@ -1,0 +1,75 @@
+"""Units declared in trailing comments: ``g = 9.80665  # [m/s^2] standard gravity``.
+
+Only the stdlib tokenizer is used, so a ``#`` inside a string is never mistaken for a
+comment. A bracket is a declaration only when it opens the comment, is closed, is
+followed by whitespace or the end of the comment, and holds nothing a unit expression
+never uses (a comma, ``=``, quotes, ``...``): real code has many comments such as
+``# [1]_ Eq. 4`` or ``# [3*(1-x)**2, ...]`` that are citations or code, not units.
+"""
+
+from __future__ import annotations
+
+import io
+import re
+import tokenize
+from dataclasses import dataclass
+
+# Characters that never appear in a unit expression; a bracket holding one is prose.
+_NOT_UNIT_CHARS = re.compile(r"[,=;'\"`{}<>!?@&|\\]|\.\.\.")
+_CANDIDATE_LINE = re.compile(r"#\s*\[")
+
+
+@dataclass(frozen=True, slots=True)
+class CommentUnit:
+    line: int
+    column: int  # 1-based column of the unit text inside the comment
+    text: str  # the bracket's content, stripped; "" and "-" mean dimensionless
+
+
+def read_bracket(comment: str) -> tuple[str, int] | None:
+    """The unit text of a comment that starts with a bracketed unit, and its offset."""
+    body = comment.lstrip("#")
+    stripped = body.lstrip()
+    if not stripped.startswith("["):
+        return None
+    close = stripped.find("]")
+    if close < 0:
+        return None
+    after = stripped[close + 1 : close + 2]
+    if after and not after.isspace():
+        return None  # "[1]_ Eq. 4": a citation, not a unit
+    content = stripped[1:close]
+    if "[" in content or _NOT_UNIT_CHARS.search(content):
+        return None
+    offset = len(comment) - len(stripped) + 1
+    return content.strip(), offset
+
+
+def trailing_comment_units(source: str) -> dict[int, CommentUnit]:
+    """Map line number -> unit declared by a trailing comment on that line.
+
+    Comments alone on their line are ignored: the contract reads only comments that
+    trail code (an assignment or a parameter of a multi-line signature).
+    """
+    if not _CANDIDATE_LINE.search(source):
+        return {}
+    found: dict[int, CommentUnit] = {}
+    code_on_line: set[int] = set()
+    try:
+        for token in tokenize.generate_tokens(io.StringIO(source).readline):
+            kind = token.type
+            if kind == tokenize.COMMENT:
+                line, col = token.start
+                if line not in code_on_line:
+                    continue
+                parsed = read_bracket(token.string)
+                if parsed is not None:
+                    text, offset = parsed
+                    found[line] = CommentUnit(line, col + offset + 1, text)
+            elif kind not in (tokenize.NL, tokenize.NEWLINE, tokenize.INDENT, tokenize.DEDENT,
+                              tokenize.ENCODING, tokenize.ENDMARKER):
+                for line in range(token.start[0], token.end[0] + 1):
+                    code_on_line.add(line)
+    except (tokenize.TokenError, SyntaxError, IndentationError):
+        pass  # the file parsed with ast already; keep what was read
+    return found

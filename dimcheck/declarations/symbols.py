@@ -1,0 +1,312 @@
+"""What a module declares: functions, classes, aliases, declared globals and imports.
+
+This pass reads the syntax tree once, with no inference: it records *where* units
+are declared (as ``UnitText``/``AliasRef``) and leaves parsing them to the resolver,
+which knows the unit table and the other modules.
+"""
+
+from __future__ import annotations
+
+import ast
+from dataclasses import dataclass, field
+
+from .annotations import AliasRef, UnitText, read_annotation
+from .comments import CommentUnit
+
+UnitSpec = UnitText | AliasRef | None
+
+
+@dataclass(slots=True)
+class ParamInfo:
+    name: str
+    kind: str  # "positional", "vararg", "keyword", "varkw"
+    spec: UnitSpec
+    default: ast.expr | None
+    node: ast.arg
+    positional_only: bool = False
+
+
+@dataclass(eq=False, slots=True)
+class FunctionInfo:
+    name: str
+    qualname: str
+    node: ast.FunctionDef | ast.AsyncFunctionDef | ast.Lambda
+    module: "ModuleSymbols"
+    params: list[ParamInfo]
+    return_spec: UnitSpec
+    owner: "ClassInfo | None" = None
+    decorators: frozenset[str] = frozenset()
+
+    @property
+    def is_static(self) -> bool:
+        return "staticmethod" in self.decorators
+
+    @property
+    def is_classmethod(self) -> bool:
+        return "classmethod" in self.decorators
+
+    @property
+    def is_property(self) -> bool:
+        return bool(self.decorators & {"property", "cached_property"})
+
+    @property
+    def line(self) -> int:
+        return self.node.lineno
+
+
+@dataclass(eq=False, slots=True)
+class ClassInfo:
+    name: str
+    node: ast.ClassDef
+    module: "ModuleSymbols"
+    base_nodes: list[ast.expr]
+    attributes: dict[str, tuple[UnitSpec, ast.AST]] = field(default_factory=dict)
+    methods: dict[str, FunctionInfo] = field(default_factory=dict)
+    fields: list[tuple[str, UnitSpec, ast.expr | None, ast.AST]] = field(default_factory=list)
+    is_record: bool = False  # dataclass or NamedTuple: fields are the constructor's parameters
+
+
+@dataclass(frozen=True, slots=True)
+class ImportRef:
+    """``local = module`` (attr None) or ``local = module.attr`` (``from module import attr``)."""
+
+    module: str
+    attr: str | None
+    level: int = 0
+
+
+@dataclass(eq=False, slots=True)
+class ModuleSymbols:
+    path: str
+    name: str
+    tree: ast.Module
+    source: str
+    comment_units: dict[int, CommentUnit]
+    is_package: bool = False
+    is_stub: bool = False
+    functions: dict[str, FunctionInfo] = field(default_factory=dict)
+    classes: dict[str, ClassInfo] = field(default_factory=dict)
+    aliases: dict[str, UnitText | AliasRef] = field(default_factory=dict)
+    globals_declared: dict[str, tuple[UnitSpec, ast.AST]] = field(default_factory=dict)
+    imports: dict[str, ImportRef] = field(default_factory=dict)
+    # every function and method, for the baseline pass; nested ones are found on the way
+    all_functions: list[FunctionInfo] = field(default_factory=list)
+
+    _lines: list[str] | None = None
+
+    def line_text(self, line: int) -> str:
+        if self._lines is None:
+            self._lines = self.source.splitlines()
+        if 1 <= line <= len(self._lines):
+            return self._lines[line - 1]
+        return ""
+
+
+def decorator_names(node) -> frozenset[str]:
+    names = set()
+    for decorator in getattr(node, "decorator_list", ()):
+        target = decorator.func if isinstance(decorator, ast.Call) else decorator
+        if isinstance(target, ast.Name):
+            names.add(target.id)
+        elif isinstance(target, ast.Attribute):
+            names.add(target.attr)
+    return frozenset(names)
+
+
+def comment_spec(module: ModuleSymbols, first_line: int, last_line: int) -> UnitText | None:
+    for line in range(first_line, last_line + 1):
+        found = module.comment_units.get(line)
+        if found is not None:
+            return UnitText(found.text, _CommentNode(found))
+    return None
+
+
+class _CommentNode(ast.AST):
+    """A stand-in node that gives a comment unit a location for DIM901."""
+
+    _attributes = ("lineno", "col_offset", "end_lineno", "end_col_offset")
+
+    def __init__(self, comment: CommentUnit):
+        super().__init__()
+        self.lineno = comment.line
+        self.col_offset = comment.column - 1
+        self.end_lineno = comment.line
+        self.end_col_offset = comment.column - 1 + len(comment.text)
+        self.from_comment = True
+
+
+def read_parameters(module: ModuleSymbols, node) -> list[ParamInfo]:
+    args = node.args
+    params: list[ParamInfo] = []
+    multi_line = getattr(node, "end_lineno", node.lineno) != node.lineno
+    all_args = args.posonlyargs + args.args + ([args.vararg] if args.vararg else []) + \
+        args.kwonlyargs + ([args.kwarg] if args.kwarg else [])
+    args_per_line: dict[int, int] = {}
+    for arg in all_args:
+        args_per_line[arg.lineno] = args_per_line.get(arg.lineno, 0) + 1
+
+    def spec_of(arg: ast.arg) -> UnitSpec:
+        spec = read_annotation(arg.annotation) if not isinstance(node, ast.Lambda) else None
+        if spec is None and multi_line and args_per_line.get(arg.lineno) == 1:
+            found = module.comment_units.get(arg.lineno)
+            if found is not None:
+                spec = UnitText(found.text, _CommentNode(found))
+        return spec
+
+    positional = args.posonlyargs + args.args
+    defaults = [None] * (len(positional) - len(args.defaults)) + list(args.defaults)
+    for index, (arg, default) in enumerate(zip(positional, defaults)):
+        params.append(ParamInfo(arg.arg, "positional", spec_of(arg), default, arg,
+                                positional_only=index < len(args.posonlyargs)))
+    if args.vararg:
+        params.append(ParamInfo(args.vararg.arg, "vararg", spec_of(args.vararg), None, args.vararg))
+    for arg, default in zip(args.kwonlyargs, args.kw_defaults):
+        params.append(ParamInfo(arg.arg, "keyword", spec_of(arg), default, arg))
+    if args.kwarg:
+        params.append(ParamInfo(args.kwarg.arg, "varkw", spec_of(args.kwarg), None, args.kwarg))
+    return params
+
+
+def make_function(module: ModuleSymbols, node, qualname: str, owner: ClassInfo | None) -> FunctionInfo:
+    returns = None if isinstance(node, ast.Lambda) else read_annotation(node.returns)
+    info = FunctionInfo(
+        name=getattr(node, "name", "<lambda>"), qualname=qualname, node=node, module=module,
+        params=read_parameters(module, node), return_spec=returns, owner=owner,
+        decorators=decorator_names(node),
+    )
+    return info
+
+
+def _is_record_class(node: ast.ClassDef) -> bool:
+    if "dataclass" in decorator_names(node):
+        return True
+    for base in node.bases:
+        name = base.attr if isinstance(base, ast.Attribute) else getattr(base, "id", None)
+        if name == "NamedTuple":
+            return True
+    return False
+
+
+def _self_attribute_declarations(cls: ClassInfo, method: ast.FunctionDef, module: ModuleSymbols) -> None:
+    """``self.x: Annotated[...] = ...`` and ``self.x = ...  # [unit]`` inside methods."""
+    if not method.args.args:
+        return
+    self_name = method.args.args[0].arg
+    for stmt in ast.walk(method):
+        if isinstance(stmt, ast.AnnAssign):
+            targets, spec = [stmt.target], read_annotation(stmt.annotation)
+        elif isinstance(stmt, ast.Assign):
+            targets = stmt.targets
+            spec = comment_spec(module, stmt.lineno, stmt.end_lineno or stmt.lineno)
+        else:
+            continue
+        if spec is None:
+            continue
+        for target in targets:
+            if (isinstance(target, ast.Attribute) and isinstance(target.value, ast.Name)
+                    and target.value.id == self_name and target.attr not in cls.attributes):
+                cls.attributes[target.attr] = (spec, stmt)
+
+
+def read_class(module: ModuleSymbols, node: ast.ClassDef, qualname: str) -> ClassInfo:
+    cls = ClassInfo(node.name, node, module, list(node.bases), is_record=_is_record_class(node))
+    for stmt in node.body:
+        if isinstance(stmt, ast.AnnAssign) and isinstance(stmt.target, ast.Name):
+            spec = read_annotation(stmt.annotation)
+            if spec is None:
+                spec = comment_spec(module, stmt.lineno, stmt.end_lineno or stmt.lineno)
+            cls.attributes[stmt.target.id] = (spec, stmt)
+            if not _is_classvar(stmt.annotation):
+                cls.fields.append((stmt.target.id, spec, stmt.value, stmt))
+        elif isinstance(stmt, ast.Assign):
+            spec = comment_spec(module, stmt.lineno, stmt.end_lineno or stmt.lineno)
+            if spec is not None:
+                for target in stmt.targets:
+                    if isinstance(target, ast.Name):
+                        cls.attributes[target.id] = (spec, stmt)
+        elif isinstance(stmt, (ast.FunctionDef, ast.AsyncFunctionDef)):
+            method = make_function(module, stmt, f"{qualname}.{stmt.name}", cls)
+            cls.methods[stmt.name] = method
+            module.all_functions.append(method)
+    for method in cls.methods.values():
+        _self_attribute_declarations(cls, method.node, module)
+    return cls
+
+
+def _is_classvar(annotation: ast.AST) -> bool:
+    head = annotation.value if isinstance(annotation, ast.Subscript) else annotation
+    name = head.attr if isinstance(head, ast.Attribute) else getattr(head, "id", None)
+    return name == "ClassVar"
+
+
+def _top_level_statements(body):
+    """Module statements, looking into ``if``/``try`` blocks (guarded imports, fallbacks)."""
+    for stmt in body:
+        if isinstance(stmt, ast.If):
+            yield from _top_level_statements(stmt.body)
+            yield from _top_level_statements(stmt.orelse)
+        elif isinstance(stmt, ast.Try):
+            for block in (stmt.body, stmt.orelse, stmt.finalbody):
+                yield from _top_level_statements(block)
+            for handler in stmt.handlers:
+                yield from _top_level_statements(handler.body)
+        else:
+            yield stmt
+
+
+def record_import(imports: dict[str, ImportRef], stmt: ast.Import | ast.ImportFrom) -> None:
+    if isinstance(stmt, ast.Import):
+        for alias in stmt.names:
+            if alias.asname:
+                imports[alias.asname] = ImportRef(alias.name, None)
+            else:
+                top = alias.name.split(".")[0]
+                imports[top] = ImportRef(top, None)
+    else:
+        for alias in stmt.names:
+            if alias.name == "*":
+                continue
+            imports[alias.asname or alias.name] = ImportRef(stmt.module or "", alias.name, stmt.level)
+
+
+def collect_symbols(module: ModuleSymbols) -> ModuleSymbols:
+    """Fill in the module's functions, classes, aliases, declared globals and imports."""
+    for stmt in _top_level_statements(module.tree.body):
+        if isinstance(stmt, (ast.FunctionDef, ast.AsyncFunctionDef)):
+            info = make_function(module, stmt, stmt.name, None)
+            module.functions[stmt.name] = info
+            module.all_functions.append(info)
+        elif isinstance(stmt, ast.ClassDef):
+            module.classes[stmt.name] = read_class(module, stmt, stmt.name)
+        elif isinstance(stmt, (ast.Import, ast.ImportFrom)):
+            record_import(module.imports, stmt)
+        elif isinstance(stmt, ast.AnnAssign) and isinstance(stmt.target, ast.Name):
+            name = stmt.target.id
+            if _is_type_alias_annotation(stmt.annotation) and stmt.value is not None:
+                spec = read_annotation(stmt.value)
+                if spec is not None:
+                    module.aliases[name] = spec
+                continue
+            spec = read_annotation(stmt.annotation)
+            if spec is None:
+                spec = comment_spec(module, stmt.lineno, stmt.end_lineno or stmt.lineno)
+            if spec is not None:
+                module.globals_declared[name] = (spec, stmt)
+        elif isinstance(stmt, ast.Assign):
+            spec = read_annotation(stmt.value) if isinstance(stmt.value, ast.Subscript) else None
+            if isinstance(spec, UnitText):
+                for target in stmt.targets:
+                    if isinstance(target, ast.Name):
+                        module.aliases[target.id] = spec
+                continue
+            spec = comment_spec(module, stmt.lineno, stmt.end_lineno or stmt.lineno)
+            if spec is not None:
+                for target in stmt.targets:
+                    if isinstance(target, ast.Name):
+                        module.globals_declared[target.id] = (spec, stmt)
+    return module
+
+
+def _is_type_alias_annotation(annotation: ast.AST) -> bool:
+    name = annotation.attr if isinstance(annotation, ast.Attribute) else getattr(annotation, "id", None)
+    return name == "TypeAlias"

@@ -1,0 +1,1 @@
+"""Inference: carries dimensions through expressions, calls, returns and modules."""

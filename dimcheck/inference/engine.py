@@ -1,0 +1,551 @@
+"""Whole-program inference: declarations resolved to quantities, module environments,
+calls (with per-call-site analysis of unannotated helpers), attributes and classes.
+
+One ``Engine`` serves one run over a project. It memoises everything it computes
+(declarations, module environments, function results) so each piece is done once,
+and it guards every recursive path (import cycles, recursive functions, long call
+chains) so that inference always terminates.
+"""
+
+from __future__ import annotations
+
+import ast
+import os
+from collections import defaultdict
+from dataclasses import dataclass, field
+from typing import Any
+
+from ..declarations.annotations import AliasRef, UnitText
+from ..declarations.symbols import (
+    ClassInfo, FunctionInfo, ImportRef, ModuleSymbols, ParamInfo, make_function,
+)
+from ..rules import checks
+from ..rules.checks import Problem
+from ..units import UnitError, parse_unit
+from ..units.dimension import DIMENSIONLESS
+from .evaluator import STAR, Located, ScopeEvaluator, merge_values
+from .generic import GenericSyntaxError, GenericUnit, parse_generic
+from .project import Project
+from .values import (
+    UNKNOWN, Bare, ClassValue, FunctionValue, InstanceValue, ModuleValue, Origin, Quantity,
+    TupleValue, Unknown,
+)
+
+MAX_CALL_DEPTH = 6
+MAX_ALIAS_DEPTH = 12
+_ARRAY_ATTRIBUTES = {"T", "real", "imag", "flat", "mT"}
+
+
+@dataclass
+class FunctionResult:
+    value: Any
+    problems: list[Located] = field(default_factory=list)
+
+
+def _value_key(value: Any) -> tuple:
+    if isinstance(value, Quantity):
+        return ("q", value.dimension, value.scales, value.offset)
+    if isinstance(value, Bare):
+        return ("b", value.value)
+    if isinstance(value, TupleValue):
+        return ("t",) + tuple(_value_key(item) for item in value.items)
+    if isinstance(value, (InstanceValue, ClassValue)):
+        return ("c", id(value.info))
+    if isinstance(value, FunctionValue):
+        return ("f", id(value.function))
+    return ("u",)
+
+
+def _informative(value: Any) -> bool:
+    """Whether an argument can teach a helper anything about units."""
+    if isinstance(value, TupleValue):
+        return any(_informative(item) for item in value.items)
+    return isinstance(value, (Quantity, InstanceValue, FunctionValue, ClassValue))
+
+
+def merge_returns(values: list[Any]) -> Any:
+    known = [v for v in values if not (isinstance(v, Bare) and v.is_zero)]
+    if not known:
+        return UNKNOWN
+    result = known[0]
+    for value in known[1:]:
+        result = merge_values(result, value)
+    return Unknown() if isinstance(result, Bare) else result
+
+
+def display_path(path: str) -> str:
+    try:
+        return os.path.relpath(path)
+    except ValueError:
+        return path
+
+
+class Engine:
+    def __init__(self, project: Project, table):
+        self.project = project
+        self.table = table
+        self.depth = 0  # expression nesting across all evaluators, for the recursion budget
+        self._call_depth = 0
+        self._declared: dict[tuple, Any] = {}
+        self._declaration_problems: dict[str, dict[tuple, Located]] = defaultdict(dict)
+        self._module_envs: dict[str, dict] = {}
+        self._module_problems: dict[str, list[Located]] = defaultdict(list)
+        self._baselines: dict[int, FunctionResult] = {}
+        self._in_baseline: set[int] = set()
+        self._call_results: dict[tuple, FunctionResult] = {}
+        self._in_call: set[tuple] = set()
+        self._nested: dict[int, FunctionInfo] = {}
+        self._constructors: dict[int, FunctionInfo] = {}
+        self._bases: dict[int, list[ClassInfo]] = {}
+
+    # == declarations ======================================================================
+    def declared(self, module: ModuleSymbols, spec) -> Quantity | GenericUnit | None:
+        if spec is None:
+            return None
+        key = (module.path, id(spec))
+        if key in self._declared:
+            return self._declared[key]
+        self._declared[key] = None  # a cycle of aliases resolves to nothing
+        if isinstance(spec, UnitText):
+            result = self._unit_text(module, spec)
+        else:
+            result = self._alias(module, spec.parts, 0)
+        self._declared[key] = result
+        return result
+
+    def _unit_text(self, module: ModuleSymbols, spec: UnitText) -> Quantity | GenericUnit | None:
+        text = spec.text.strip()
+        from_comment = getattr(spec.node, "from_comment", False)
+        kind = "stub" if module.is_stub else ("comment" if from_comment else "annotation")
+        origin = Origin(module.path, getattr(spec.node, "lineno", 0), kind)
+        if "$" in text:
+            try:
+                return parse_generic(text)
+            except GenericSyntaxError as error:
+                self._declaration_problem(module, spec.node, str(error))
+                return None
+        if from_comment and text in ("", "-"):
+            return Quantity(DIMENSIONLESS, (1.0,), "1", origin=origin)
+        try:
+            unit = parse_unit(text, self.table)
+        except UnitError as error:
+            self._declaration_problem(module, spec.node, str(error))
+            return None
+        scales = None if unit.scale is None else (unit.scale,)
+        return Quantity(unit.dimension, scales, text, origin=origin, offset=unit.is_offset)
+
+    def _declaration_problem(self, module: ModuleSymbols, node: ast.AST, message: str) -> None:
+        located = Located(Problem("DIM901", message), module.path, node.lineno, node.col_offset,
+                          getattr(node, "end_lineno", None) or node.lineno,
+                          getattr(node, "end_col_offset", None) or node.col_offset)
+        self._declaration_problems[module.path][located.key] = located
+
+    def _alias(self, module: ModuleSymbols, parts: tuple[str, ...], depth: int):
+        if depth > MAX_ALIAS_DEPTH or not parts:
+            return None
+        name = parts[0]
+        if len(parts) == 1:
+            if name in module.aliases:
+                return self.declared(module, module.aliases[name])
+            ref = module.imports.get(name)
+            if ref is not None and ref.attr is not None:
+                target = self.project.find_module(self.project.resolve_import(module, ref))
+                if target is not None:
+                    return self._alias(target, (ref.attr,), depth + 1)
+            return None
+        ref = module.imports.get(name)
+        if ref is None:
+            return None
+        base = self.project.resolve_import(module, ref)
+        dotted = f"{base}.{ref.attr}" if ref.attr else base
+        for middle in parts[1:-1]:
+            dotted = f"{dotted}.{middle}"
+        target = self.project.find_module(dotted)
+        return self._alias(target, parts[-1:], depth + 1) if target is not None else None
+
+    def global_declaration(self, module: ModuleSymbols, name: str) -> Quantity | None:
+        entry = module.globals_declared.get(name)
+        if entry is None:
+            return None
+        value = self.declared(module, entry[0])
+        return value if isinstance(value, Quantity) else None
+
+    # == modules ===========================================================================
+    def module_env(self, module: ModuleSymbols) -> dict:
+        env = self._module_envs.get(module.path)
+        if env is not None:
+            return env
+        env = {}
+        self._module_envs[module.path] = env  # partial while it runs: import cycles see this
+        if module.is_stub:
+            return env
+        evaluator = ScopeEvaluator(self, module, env)
+        evaluator.run(module.tree.body)
+        self._module_envs[module.path] = evaluator.env
+        self._module_problems[module.path].extend(evaluator.problems)
+        return evaluator.env
+
+    def module_name_value(self, module: ModuleSymbols, name: str) -> Any:
+        env = self.module_env(module)
+        if name in env:
+            return env[name]
+        declared = self.global_declaration(module, name)
+        if declared is not None:
+            return declared
+        if name in module.functions:
+            return FunctionValue(module.functions[name])
+        if name in module.classes:
+            return ClassValue(module.classes[name])
+        if name in module.imports:
+            return self.import_value(module, module.imports[name])
+        if not module.is_stub or module.name != "builtins":
+            builtins = self.project.stub_module("builtins")
+            if builtins is not None and name in builtins.functions:
+                return FunctionValue(builtins.functions[name])
+        return UNKNOWN
+
+    def _defines(self, module: ModuleSymbols, name: str) -> bool:
+        return (name in module.globals_declared or name in module.functions or name in module.classes
+                or name in module.imports or name in self._module_envs.get(module.path, ()))
+
+    def import_value(self, module: ModuleSymbols, ref: ImportRef) -> Any:
+        base = self.project.resolve_import(module, ref)
+        if ref.attr is None:
+            return ModuleValue(base)
+        target = self.project.find_module(base)
+        if target is not None and (self._defines(target, ref.attr) or not target.is_stub):
+            if self._defines(target, ref.attr):
+                return self.module_name_value(target, ref.attr)
+        submodule = f"{base}.{ref.attr}"
+        if self.project.find_module(submodule) is not None:
+            return ModuleValue(submodule)
+        if target is not None:
+            return self.module_name_value(target, ref.attr)
+        return UNKNOWN
+
+    # == attributes ========================================================================
+    def attribute_value(self, owner: Any, attr: str, evaluator: ScopeEvaluator) -> Any:
+        if isinstance(owner, ModuleValue):
+            target = self.project.find_module(owner.name)
+            if target is not None and self._defines(target, attr):
+                return self.module_name_value(target, attr)
+            submodule = f"{owner.name}.{attr}"
+            if self.project.find_module(submodule) is not None:
+                return ModuleValue(submodule)
+            return self.module_name_value(target, attr) if target is not None else UNKNOWN
+        if isinstance(owner, (InstanceValue, ClassValue)):
+            found = self._class_member(owner.info, attr, 0)
+            if found is None:
+                return UNKNOWN
+            kind, payload, info = found
+            if kind == "attribute":
+                value = self.declared(info.module, payload)
+                return value if isinstance(value, Quantity) else UNKNOWN
+            function: FunctionInfo = payload
+            if isinstance(owner, InstanceValue):
+                if function.is_property:
+                    return self.call_function(FunctionValue(function, owner), [], {}, None, evaluator)
+                return FunctionValue(function, None if function.is_static else owner)
+            if function.is_classmethod:
+                return FunctionValue(function, owner)
+            return FunctionValue(function)
+        if isinstance(owner, Quantity):
+            if attr in _ARRAY_ATTRIBUTES:
+                return owner
+            ndarray = self._ndarray_class()
+            if ndarray is not None and attr in ndarray.methods:
+                return FunctionValue(ndarray.methods[attr], owner)
+        return UNKNOWN
+
+    def attribute_declaration(self, owner: Any, attr: str) -> Quantity | None:
+        if isinstance(owner, (InstanceValue, ClassValue)):
+            found = self._class_member(owner.info, attr, 0)
+            if found is not None and found[0] == "attribute":
+                value = self.declared(found[2].module, found[1])
+                return value if isinstance(value, Quantity) else None
+        return None
+
+    def _ndarray_class(self) -> ClassInfo | None:
+        numpy = self.project.stub_module("numpy")
+        return numpy.classes.get("ndarray") if numpy is not None else None
+
+    def _class_member(self, info: ClassInfo, attr: str, depth: int):
+        if depth > 10:
+            return None
+        if attr in info.attributes and info.attributes[attr][0] is not None:
+            return ("attribute", info.attributes[attr][0], info)
+        if attr in info.methods:
+            return ("method", info.methods[attr], info)
+        for base in self._base_classes(info):
+            found = self._class_member(base, attr, depth + 1)
+            if found is not None:
+                return found
+        return None
+
+    def _base_classes(self, info: ClassInfo) -> list[ClassInfo]:
+        key = id(info)
+        if key not in self._bases:
+            self._bases[key] = []
+            scratch = ScopeEvaluator(self, info.module, dict(self._module_envs.get(info.module.path, {})),
+                                     baseline=False)
+            self._bases[key] = [value.info for value in map(scratch.expr, info.base_nodes)
+                                if isinstance(value, ClassValue)]
+        return self._bases[key]
+
+    # == functions ===========================================================================
+    def nested_function(self, module: ModuleSymbols, node, qualname: str) -> FunctionInfo:
+        key = id(node)
+        if key not in self._nested:
+            self._nested[key] = make_function(module, node, qualname, None)
+        return self._nested[key]
+
+    def run_nested_baseline(self, info: FunctionInfo, enclosing: ScopeEvaluator) -> None:
+        key = id(info.node)
+        if key in self._baselines or key in self._in_baseline:
+            return
+        result = self._run_function(info, None, enclosing, baseline=True)
+        self._baselines[key] = result
+        enclosing.problems.extend(result.problems)
+
+    def run_class_body(self, info: ClassInfo, enclosing: ScopeEvaluator) -> None:
+        scope = ScopeEvaluator(self, info.module, {}, closure=enclosing)
+        scope.run([stmt for stmt in info.node.body
+                   if not isinstance(stmt, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef))])
+        enclosing.problems.extend(scope.problems)
+
+    def baseline(self, function: FunctionInfo) -> FunctionResult:
+        """The function analysed once with its declared parameters (others unknown)."""
+        key = id(function.node)
+        result = self._baselines.get(key)
+        if result is not None:
+            return result
+        if key in self._in_baseline:
+            return FunctionResult(UNKNOWN)
+        self._in_baseline.add(key)
+        try:
+            result = self._run_function(function, None, None, baseline=True)
+        finally:
+            self._in_baseline.discard(key)
+        self._baselines[key] = result
+        return result
+
+    def _run_function(self, function: FunctionInfo, arguments: dict | None,
+                      closure: ScopeEvaluator | None, baseline: bool) -> FunctionResult:
+        if function.module.is_stub or "<record>" in function.decorators:
+            return FunctionResult(UNKNOWN)
+        scope = ScopeEvaluator(self, function.module, {}, function=function, closure=closure,
+                               baseline=baseline)
+        for index, param in enumerate(function.params):
+            declared = self.declared(function.module, param.spec)
+            if isinstance(declared, Quantity):
+                scope.env[param.name] = declared
+                scope.declared[param.name] = declared
+            elif arguments is not None and param.name in arguments:
+                scope.env[param.name] = arguments[param.name]
+            elif index == 0 and function.owner is not None and not function.is_static:
+                owner = function.owner
+                scope.env[param.name] = ClassValue(owner) if function.is_classmethod else InstanceValue(owner)
+            else:
+                scope.env[param.name] = UNKNOWN
+        if isinstance(function.node, ast.Lambda):
+            scope.returns.append(scope.expr(function.node.body))
+        else:
+            scope.run(function.node.body)
+        return FunctionResult(merge_returns(scope.returns), scope.problems)
+
+    def _call_site_result(self, function: FunctionInfo, arguments: dict,
+                          closure: ScopeEvaluator | None) -> FunctionResult:
+        key = (id(function.node),) + tuple(_value_key(arguments.get(p.name)) for p in function.params)
+        cached = self._call_results.get(key)
+        if cached is not None:
+            return cached
+        if key in self._in_call or self._call_depth >= MAX_CALL_DEPTH:
+            return FunctionResult(UNKNOWN)
+        self._in_call.add(key)
+        self._call_depth += 1
+        try:
+            result = self._run_function(function, arguments, closure, baseline=False)
+            if closure is None:
+                known = {p.key for p in self.baseline(function).problems}
+            else:
+                known = {p.key for p in self._baselines.get(id(function.node), FunctionResult(None)).problems}
+            result.problems = [p for p in result.problems if p.key not in known]
+        finally:
+            self._in_call.discard(key)
+            self._call_depth -= 1
+        self._call_results[key] = result
+        return result
+
+    # == calls ===============================================================================
+    def call(self, callee: Any, args: list, keywords: dict, node: ast.Call, evaluator: ScopeEvaluator) -> Any:
+        if isinstance(callee, FunctionValue):
+            return self.call_function(callee, args, keywords, node, evaluator)
+        if isinstance(callee, ClassValue):
+            return self._construct(callee.info, args, keywords, node, evaluator)
+        return UNKNOWN
+
+    def _construct(self, info: ClassInfo, args, keywords, node, evaluator) -> Any:
+        instance = InstanceValue(info)
+        if info.is_record:
+            constructor = self._record_constructor(info)
+            self.call_function(FunctionValue(constructor), args, keywords, node, evaluator)
+        else:
+            found = self._class_member(info, "__init__", 0)
+            if found is not None and found[0] == "method":
+                self.call_function(FunctionValue(found[1], instance), args, keywords, node, evaluator)
+        return instance
+
+    def _record_constructor(self, info: ClassInfo) -> FunctionInfo:
+        key = id(info)
+        if key not in self._constructors:
+            params = [ParamInfo(name, "positional", spec, default, stmt)
+                      for name, spec, default, stmt in info.fields]
+            self._constructors[key] = FunctionInfo(info.name, info.name, info.node, info.module, params,
+                                                   None, decorators=frozenset({"<record>"}))
+        return self._constructors[key]
+
+    def call_function(self, callee: FunctionValue, args: list, keywords: dict, node,
+                      evaluator: ScopeEvaluator) -> Any:
+        function = callee.function
+        module = function.module
+        special = _SPECIAL_CALLS.get((module.name, function.name)) if module.is_stub else None
+        if special is not None:
+            return special(evaluator, node, args, keywords)
+        bound = bind_arguments(function, callee.bound_self, args, keywords)
+        transcendental = "transcendental" in function.decorators
+        bindings: dict[str, Any] = {}
+        generic_members: dict[str, list] = defaultdict(list)
+        arguments: dict[str, Any] = {}
+        for param in function.params:
+            supplied = bound.get(param.name, [])
+            declared = self.declared(module, param.spec)
+            if isinstance(declared, Quantity):
+                for value, arg_node in supplied:
+                    if arg_node is not None:
+                        evaluator.report(arg_node, checks.check_argument(
+                            param.name, function.name, declared, value, transcendental))
+            elif isinstance(declared, GenericUnit):
+                variable = declared.single_variable
+                for value, arg_node in supplied:
+                    if variable is not None:
+                        generic_members[variable].append((value, arg_node))
+            elif supplied and param.kind not in ("vararg", "varkw"):
+                value = supplied[0][0]
+                arguments[param.name] = Unknown(value.value) if isinstance(value, Bare) else value
+        for variable, members in generic_members.items():
+            first = next((value for value, _ in members if isinstance(value, Quantity)), None)
+            if first is None:
+                continue
+            bindings[variable] = first
+            for value, arg_node in members:
+                if value is not first and arg_node is not None:
+                    evaluator.report(arg_node, checks.check_combination(
+                        f"arguments of {function.name}()", first, value))
+        for param in function.params:  # generic templates such as "$X^2" checked after binding
+            declared = self.declared(module, param.spec)
+            if isinstance(declared, GenericUnit) and declared.single_variable is None:
+                expected = declared.evaluate(bindings, self._lookup_unit)
+                if expected is not None:
+                    for value, arg_node in bound.get(param.name, []):
+                        if arg_node is not None:
+                            evaluator.report(arg_node, checks.check_argument(
+                                param.name, function.name, expected, value, transcendental))
+
+        returned = self.declared(module, function.return_spec)
+        if isinstance(returned, GenericUnit):
+            result = returned.evaluate(bindings, self._lookup_unit)
+            return result if result is not None else UNKNOWN
+        if module.is_stub or "<record>" in function.decorators:
+            # unknown in, unknown out: library calls alone never make a value known
+            any_known = any(isinstance(value, Quantity) for values in bound.values() for value, _ in values)
+            if isinstance(returned, Quantity) and (any_known or not function.params):
+                return returned
+            return UNKNOWN
+        if any(_informative(value) for value in arguments.values()):
+            outcome = self._call_site_result(function, arguments, callee.closure)
+            if node is not None:
+                for located in outcome.problems:
+                    step = f"{function.qualname}() at {display_path(located.path)}:{located.line}"
+                    evaluator.report(node, located.problem, located.chain + (step,))
+            return returned if isinstance(returned, Quantity) else outcome.value
+        if isinstance(returned, Quantity):
+            return returned
+        if callee.closure is not None:
+            done = self._baselines.get(id(function.node))
+            return done.value if done is not None else UNKNOWN
+        return self.baseline(function).value
+
+    def _lookup_unit(self, text: str) -> Quantity | None:
+        try:
+            unit = parse_unit(text, self.table)
+        except UnitError:
+            return None
+        return Quantity(unit.dimension, None if unit.scale is None else (unit.scale,), text)
+
+    # == checking a module ======================================================================
+    def check_module(self, module: ModuleSymbols) -> list[Located]:
+        if not self.project.can_have_units(module):
+            return []
+        self.module_env(module)
+        problems = list(self._module_problems[module.path])
+        for function in module.all_functions:
+            problems.extend(self.baseline(function).problems)
+        self._validate_declarations(module)
+        problems.extend(self._declaration_problems[module.path].values())
+        unique: dict[tuple, Located] = {}
+        for located in problems:
+            if located.path == module.path:
+                unique.setdefault(located.key + (located.chain,), located)
+        return list(unique.values())
+
+    def _validate_declarations(self, module: ModuleSymbols) -> None:
+        """Parse every declaration of the module, used or not, so bad units are reported."""
+        for function in module.all_functions:
+            for param in function.params:
+                self.declared(module, param.spec)
+            self.declared(module, function.return_spec)
+        for spec in module.aliases.values():
+            self.declared(module, spec)
+        for spec, _ in module.globals_declared.values():
+            self.declared(module, spec)
+        for info in module.classes.values():
+            for spec, _ in info.attributes.values():
+                self.declared(module, spec)
+
+
+def bind_arguments(function: FunctionInfo, bound_self: Any, args: list, keywords: dict) -> dict:
+    """Map call arguments to parameter names: name -> [(value, node), ...]."""
+    result: dict[str, list] = {}
+    positional = [p for p in function.params if p.kind == "positional"]
+    vararg = next((p for p in function.params if p.kind == "vararg"), None)
+    if bound_self is not None and not function.is_static and positional:
+        result[positional[0].name] = [(bound_self, None)]
+        positional = positional[1:]
+    for index, (value, node) in enumerate(args):
+        if value is STAR:
+            break
+        if index < len(positional):
+            result[positional[index].name] = [(value, node)]
+        elif vararg is not None:
+            result.setdefault(vararg.name, []).append((value, node))
+    by_name = {p.name: p for p in function.params if p.kind in ("positional", "keyword")}
+    for name, (value, node) in keywords.items():
+        param = by_name.get(name) if isinstance(name, str) else None
+        if param is not None and not param.positional_only:
+            result[param.name] = [(value, node)]
+    return result
+
+
+def _power_call(evaluator: ScopeEvaluator, node, args, keywords) -> Any:
+    if len(args) < 2 or args[0][0] is STAR or args[1][0] is STAR:
+        return UNKNOWN
+    return evaluator._power(node, args[0][0], args[1][0])
+
+
+# Calls whose result the stub notation cannot express: the exponent's value matters.
+_SPECIAL_CALLS = {
+    ("numpy", "power"): _power_call,
+    ("numpy", "float_power"): _power_call,
+    ("math", "pow"): _power_call,
+    ("builtins", "pow"): _power_call,
+}

@@ -1,0 +1,663 @@
+"""The inference pass over one scope (a module body, class body or function body).
+
+``ScopeEvaluator`` walks statements in order, keeps an environment of abstract values
+(``values.py``), and computes the value of every expression. Where two values meet
+(a sum, a binding to a declaration, a call argument, a power) it asks the rule checks
+in ``rules/checks.py`` and records any problem at the node's location.
+
+Deep code never breaks it: chains such as ``a + a + ... + a`` are walked iteratively
+along their left spine, and anything nested deeper than a fixed budget is left unknown.
+"""
+
+from __future__ import annotations
+
+import ast
+from dataclasses import dataclass
+from fractions import Fraction
+from typing import TYPE_CHECKING, Any
+
+from ..declarations.symbols import FunctionInfo, make_function, read_annotation, record_import
+from ..declarations.symbols import comment_spec
+from ..rules import checks
+from ..units.dimension import DIMENSIONLESS
+from ..rules.checks import Problem
+from .generic import GenericUnit, raise_quantity
+from .values import (
+    UNKNOWN, Bare, ClassValue, FunctionValue, InstanceValue, ModuleValue, Quantity,
+    TupleValue, Unknown, intersect_scales, quantity_product, scale_by_bare,
+)
+
+if TYPE_CHECKING:
+    from .engine import Engine
+    from ..declarations.symbols import ModuleSymbols
+
+MAX_EXPRESSION_DEPTH = 180
+MAX_BLOCK_DEPTH = 90
+
+
+@dataclass(frozen=True, slots=True)
+class Located:
+    """A problem at a place in a file; ``chain`` names the helpers it came through."""
+
+    problem: Problem
+    path: str
+    line: int
+    column: int  # 0-based, as in ast
+    end_line: int
+    end_column: int
+    chain: tuple[str, ...] = ()
+
+    @property
+    def key(self) -> tuple:
+        return (self.path, self.line, self.column, self.problem.code)
+
+
+_COMPARISON_SKIP = (ast.Is, ast.IsNot, ast.In, ast.NotIn)
+
+
+def merge_values(a: Any, b: Any) -> Any:
+    """The value of a name after two branches of control flow meet."""
+    if a is b:
+        return a
+    if isinstance(a, Quantity) and isinstance(b, Quantity):
+        if a.dimension != b.dimension:
+            return UNKNOWN
+        return a if a.scales == b.scales else Quantity(
+            a.dimension, intersect_scales(a.scales, b.scales), a.label, a.derived, a.origin, a.offset)
+    if isinstance(a, Quantity) and isinstance(b, Bare) and b.is_zero:
+        return a
+    if isinstance(b, Quantity) and isinstance(a, Bare) and a.is_zero:
+        return b
+    if isinstance(a, TupleValue) and isinstance(b, TupleValue) and len(a.items) == len(b.items):
+        return TupleValue(tuple(merge_values(x, y) for x, y in zip(a.items, b.items)))
+    if isinstance(a, Bare) and isinstance(b, Bare) and a.value == b.value:
+        return a
+    if type(a) is type(b) and isinstance(a, (FunctionValue, ClassValue, InstanceValue, ModuleValue)):
+        return a if a == b else UNKNOWN
+    return UNKNOWN
+
+
+def merge_envs(base: dict, branches: list[dict]) -> dict:
+    merged = dict(base)
+    names = set()
+    for branch in branches:
+        names.update(branch)
+    for name in names:
+        values = [branch[name] for branch in branches if name in branch]
+        if len(values) < len(branches) and name in base:
+            values.append(base[name])
+        result = values[0]
+        for value in values[1:]:
+            result = merge_values(result, value)
+        merged[name] = result
+    return merged
+
+
+def element_of(value: Any) -> Any:
+    """The value of one element when iterating: arrays carry their unit per element."""
+    if isinstance(value, Quantity):
+        return value
+    if isinstance(value, TupleValue) and value.items:
+        result = value.items[0]
+        for item in value.items[1:]:
+            result = merge_values(result, item)
+        return result
+    return UNKNOWN
+
+
+def as_binding_value(value: Any) -> Any:
+    """A bare number bound to an undeclared name is unknown (keeping its value for powers)."""
+    if isinstance(value, Bare):
+        return Unknown(value.value)
+    return value
+
+
+class ScopeEvaluator:
+    def __init__(self, engine: "Engine", module: "ModuleSymbols", env: dict | None = None,
+                 function: FunctionInfo | None = None, closure: "ScopeEvaluator | None" = None,
+                 baseline: bool = True):
+        self.engine = engine
+        self.module = module
+        self.env: dict[str, Any] = env if env is not None else {}
+        self.declared: dict[str, Quantity] = {}
+        self.global_names: set[str] = set()
+        self.function = function
+        self.closure = closure
+        self.baseline = baseline
+        self.problems: list[Located] = []
+        self._seen: set[tuple] = set()
+        self.returns: list[Any] = []
+        self._block_depth = 0
+        self.is_module_scope = function is None and closure is None
+
+    # -- reporting --------------------------------------------------------------------
+    def report(self, node: ast.AST, problem: Problem | None, chain: tuple[str, ...] = ()) -> None:
+        if problem is None:
+            return
+        located = Located(problem, self.module.path, node.lineno, node.col_offset,
+                          getattr(node, "end_lineno", None) or node.lineno,
+                          getattr(node, "end_col_offset", None) or node.col_offset, chain)
+        if located.key not in self._seen:
+            self._seen.add(located.key)
+            self.problems.append(located)
+
+    # -- declarations -------------------------------------------------------------------
+    def declared_value(self, spec) -> Quantity | GenericUnit | None:
+        return self.engine.declared(self.module, spec)
+
+    def declare(self, name: str, spec) -> Quantity | None:
+        quantity = self.declared_value(spec)
+        if isinstance(quantity, Quantity):
+            self.declared[name] = quantity
+            if self.is_module_scope or name in self.global_names:
+                self.env[name] = quantity
+            return quantity
+        return None
+
+    def declared_for(self, name: str) -> Quantity | None:
+        if name in self.declared:
+            return self.declared[name]
+        if self.is_module_scope or name in self.global_names:
+            return self.engine.global_declaration(self.module, name)
+        return None
+
+    # -- statements ---------------------------------------------------------------------
+    def run(self, body: list[ast.stmt]) -> None:
+        if self._block_depth > MAX_BLOCK_DEPTH:
+            return
+        self._block_depth += 1
+        try:
+            for stmt in body:
+                self.statement(stmt)
+        finally:
+            self._block_depth -= 1
+
+    def statement(self, node: ast.stmt) -> None:
+        handler = getattr(self, "_stmt_" + type(node).__name__, None)
+        if handler is not None:
+            handler(node)
+        else:
+            self._visit_children(node)
+
+    def _visit_children(self, node: ast.AST) -> None:
+        for child in ast.iter_child_nodes(node):
+            if isinstance(child, ast.expr):
+                self.expr(child)
+            elif isinstance(child, ast.stmt):
+                self.statement(child)
+
+    def _stmt_Expr(self, node: ast.Expr) -> None:
+        self.expr(node.value)
+
+    def _stmt_Assign(self, node: ast.Assign) -> None:
+        value = self.expr(node.value)
+        spec = comment_spec(self.module, node.lineno, node.end_lineno or node.lineno)
+        for target in node.targets:
+            if spec is not None and isinstance(target, (ast.Name, ast.Attribute)):
+                self._bind_declared_target(target, spec, value, node.value)
+            else:
+                self.bind(target, value, node.value)
+
+    def _bind_declared_target(self, target, spec, value, value_node) -> None:
+        if isinstance(target, ast.Name):
+            declared = self.declare(target.id, spec)
+            if declared is None:
+                self.env[target.id] = as_binding_value(value)
+                return
+            self.report(value_node, checks.check_binding(f"'{target.id}'", declared, value))
+            self.env[target.id] = declared
+        else:
+            self.bind(target, value, value_node)
+
+    def _stmt_AnnAssign(self, node: ast.AnnAssign) -> None:
+        value = self.expr(node.value) if node.value is not None else None
+        spec = read_annotation(node.annotation)
+        if spec is None:
+            spec = comment_spec(self.module, node.lineno, node.end_lineno or node.lineno)
+        if spec is not None and isinstance(node.target, ast.Name):
+            declared = self.declare(node.target.id, spec)
+            if declared is not None:
+                if value is not None:
+                    self.report(node.value, checks.check_binding(f"'{node.target.id}'", declared, value))
+                self.env[node.target.id] = declared
+                return
+        if value is not None:
+            self.bind(node.target, value, node.value)
+
+    def _stmt_AugAssign(self, node: ast.AugAssign) -> None:
+        current = self.expr(node.target)
+        operand = self.expr(node.value)
+        result = self.binary(node, node.op, current, operand, augmented=True)
+        if isinstance(node.op, (ast.Add, ast.Sub)):
+            return  # the target keeps its unit; the sum check has been made
+        self.bind(node.target, result, node)
+
+    def bind(self, target: ast.expr, value: Any, value_node: ast.AST) -> None:
+        if isinstance(target, ast.Name):
+            declared = self.declared_for(target.id)
+            if declared is not None:
+                self.report(value_node, checks.check_binding(f"'{target.id}'", declared, value))
+                self.env[target.id] = declared
+            else:
+                self.env[target.id] = as_binding_value(value)
+        elif isinstance(target, (ast.Tuple, ast.List)):
+            elements = target.elts
+            if any(isinstance(e, ast.Starred) for e in elements):
+                for element in elements:
+                    inner = element.value if isinstance(element, ast.Starred) else element
+                    self.bind(inner, UNKNOWN if isinstance(element, ast.Starred) else element_of(value),
+                              value_node)
+                return
+            if isinstance(value, TupleValue) and len(value.items) == len(elements):
+                for element, item in zip(elements, value.items):
+                    self.bind(element, item, value_node)
+            else:
+                item = value if isinstance(value, Quantity) else UNKNOWN
+                for element in elements:
+                    self.bind(element, item, value_node)
+        elif isinstance(target, ast.Attribute):
+            owner = self.expr(target.value)
+            declared = self.engine.attribute_declaration(owner, target.attr)
+            if declared is not None:
+                self.report(value_node, checks.check_binding(f"attribute '{target.attr}'", declared, value))
+        elif isinstance(target, ast.Subscript):
+            container = self.expr(target.value)
+            self.expr(target.slice)
+            if isinstance(container, Quantity) and isinstance(target.value, ast.Name):
+                declared = self.declared_for(target.value.id)
+                if declared is not None:
+                    self.report(value_node, checks.check_binding(
+                        f"element of '{target.value.id}'", declared, value))
+        elif isinstance(target, ast.Starred):
+            self.bind(target.value, UNKNOWN, value_node)
+
+    def _stmt_Return(self, node: ast.Return) -> None:
+        value = self.expr(node.value) if node.value is not None else UNKNOWN
+        if self.function is not None and node.value is not None:
+            declared = self.declared_value(self.function.return_spec)
+            if isinstance(declared, Quantity):
+                self.report(node.value, checks.check_binding(
+                    f"return value of {self.function.name}()", declared, value))
+        self.returns.append(value)
+
+    def _branches(self, blocks: list[list[ast.stmt]]) -> None:
+        base = self.env
+        results = []
+        for block in blocks:
+            self.env = dict(base)
+            self.run(block)
+            results.append(self.env)
+        self.env = merge_envs(base, results)
+
+    def _stmt_If(self, node: ast.If) -> None:
+        self.expr(node.test)
+        self._branches([node.body, node.orelse])
+
+    def _stmt_For(self, node: ast.For) -> None:
+        iterable = self.expr(node.iter)
+        base = dict(self.env)
+        self.bind(node.target, element_of(iterable), node.iter)
+        self.run(node.body)
+        after_body = self.env
+        self.env = base
+        self._branches([[], node.orelse])
+        self.env = merge_envs(self.env, [after_body])
+
+    _stmt_AsyncFor = _stmt_For
+
+    def _stmt_While(self, node: ast.While) -> None:
+        self.expr(node.test)
+        self._branches([node.body, node.orelse])
+
+    def _stmt_Try(self, node) -> None:
+        base = dict(self.env)
+        self.run(node.body)
+        self.run(node.orelse)
+        after = self.env
+        branches = [after]
+        for handler in node.handlers:
+            self.env = dict(base)
+            if handler.type is not None:
+                self.expr(handler.type)
+            self.run(handler.body)
+            branches.append(self.env)
+        self.env = merge_envs(base, branches)
+        self.run(node.finalbody)
+
+    _stmt_TryStar = _stmt_Try
+
+    def _stmt_With(self, node) -> None:
+        for item in node.items:
+            value = self.expr(item.context_expr)
+            if item.optional_vars is not None:
+                self.bind(item.optional_vars, UNKNOWN if not isinstance(value, Quantity) else value,
+                          item.context_expr)
+        self.run(node.body)
+
+    _stmt_AsyncWith = _stmt_With
+
+    def _stmt_Match(self, node) -> None:
+        self.expr(node.subject)
+        self._branches([case.body for case in node.cases] + [[]])
+
+    def _stmt_Global(self, node: ast.Global) -> None:
+        self.global_names.update(node.names)
+
+    def _stmt_Nonlocal(self, node) -> None:
+        pass
+
+    def _stmt_Import(self, node) -> None:
+        imports: dict = {}
+        record_import(imports, node)
+        for local, ref in imports.items():
+            self.env[local] = self.engine.import_value(self.module, ref)
+
+    _stmt_ImportFrom = _stmt_Import
+
+    def _stmt_FunctionDef(self, node) -> None:
+        for decorator in node.decorator_list:
+            self.expr(decorator)
+        if self.is_module_scope:
+            info = self.module.functions.get(node.name)
+            if info is None or info.node is not node:
+                info = make_function(self.module, node, node.name, None)
+            self.env[node.name] = FunctionValue(info)
+            return
+        qualname = f"{self.function.qualname}.{node.name}" if self.function else node.name
+        info = self.engine.nested_function(self.module, node, qualname)
+        self.env[node.name] = FunctionValue(info, closure=self)
+        if self.baseline:
+            self.engine.run_nested_baseline(info, self)
+
+    _stmt_AsyncFunctionDef = _stmt_FunctionDef
+
+    def _stmt_ClassDef(self, node: ast.ClassDef) -> None:
+        info = self.module.classes.get(node.name)
+        if info is not None and info.node is node:
+            self.env[node.name] = ClassValue(info)
+            if self.is_module_scope:
+                self.engine.run_class_body(info, self)
+            return
+        for child in node.bases + [k.value for k in node.keywords] + node.decorator_list:
+            self.expr(child)
+        self.env[node.name] = UNKNOWN
+
+    # -- expressions --------------------------------------------------------------------
+    def expr(self, node: ast.expr | None) -> Any:
+        if node is None:
+            return UNKNOWN
+        engine = self.engine
+        if engine.depth > MAX_EXPRESSION_DEPTH:
+            return UNKNOWN
+        engine.depth += 1
+        try:
+            handler = getattr(self, "_expr_" + type(node).__name__, None)
+            if handler is None:
+                self._visit_children(node)
+                return UNKNOWN
+            return handler(node)
+        finally:
+            engine.depth -= 1
+
+    def _expr_Constant(self, node: ast.Constant) -> Any:
+        value = node.value
+        if isinstance(value, bool) or not isinstance(value, (int, float)):
+            return UNKNOWN
+        return Bare(value)
+
+    def _expr_Name(self, node: ast.Name) -> Any:
+        name = node.id
+        if name in self.env:
+            return self.env[name]
+        scope = self.closure
+        while scope is not None:
+            if name in scope.env:
+                return scope.env[name]
+            scope = scope.closure
+        return self.engine.module_name_value(self.module, name)
+
+    def _expr_Attribute(self, node: ast.Attribute) -> Any:
+        owner = self.expr(node.value)
+        return self.engine.attribute_value(owner, node.attr, self)
+
+    def _expr_BinOp(self, node: ast.BinOp) -> Any:
+        spine = []
+        current: ast.expr = node
+        while isinstance(current, ast.BinOp):
+            spine.append(current)
+            current = current.left
+        value = self.expr(current)
+        for binop in reversed(spine):
+            right = self.expr(binop.right)
+            value = self.binary(binop, binop.op, value, right)
+        return value
+
+    def binary(self, node: ast.AST, op: ast.operator, left: Any, right: Any, augmented: bool = False) -> Any:
+        if isinstance(op, (ast.Add, ast.Sub)):
+            verb = "add" if isinstance(op, ast.Add) else "subtract"
+            self.report(node, checks.check_combination(verb, left, right))
+            return self._sum_result(left, right, isinstance(op, ast.Sub))
+        if isinstance(op, (ast.Mult, ast.Div, ast.FloorDiv, ast.MatMult)):
+            return self._product(left, right, divide=isinstance(op, (ast.Div, ast.FloorDiv)))
+        if isinstance(op, ast.Pow):
+            return self._power(node, left, right)
+        if isinstance(op, ast.Mod):
+            if isinstance(left, Bare) and isinstance(right, Bare) and right.value:
+                try:
+                    return Bare(left.value % right.value)
+                except (TypeError, ValueError, OverflowError):
+                    return UNKNOWN
+            return left if isinstance(left, Quantity) else UNKNOWN
+        return UNKNOWN
+
+    @staticmethod
+    def _sum_result(left: Any, right: Any, subtract: bool) -> Any:
+        if isinstance(left, Bare) and isinstance(right, Bare):
+            try:
+                return Bare(left.value - right.value if subtract else left.value + right.value)
+            except (TypeError, OverflowError):
+                return UNKNOWN
+        if isinstance(left, Quantity) and isinstance(right, Quantity):
+            if left.dimension != right.dimension:
+                return UNKNOWN
+            offset = left.offset and not (subtract and right.offset)
+            if left.offset == offset and left.scales == right.scales:
+                return left
+            return Quantity(left.dimension, intersect_scales(left.scales, right.scales), left.label,
+                            True, None, offset)
+        if isinstance(left, Quantity) and isinstance(right, Bare):
+            return left
+        if isinstance(right, Quantity) and isinstance(left, Bare):
+            return right
+        return UNKNOWN
+
+    @staticmethod
+    def _product(left: Any, right: Any, divide: bool) -> Any:
+        if isinstance(left, Quantity) and isinstance(right, Quantity):
+            return quantity_product(left, right, divide)
+        if isinstance(left, Quantity) and isinstance(right, Bare):
+            return Quantity(left.dimension, scale_by_bare(left.scales, right.value, divide), left.label,
+                            left.derived, None, left.offset)
+        if isinstance(left, Bare) and isinstance(right, Quantity):
+            if not divide:
+                return Quantity(right.dimension, scale_by_bare(right.scales, left.value, False),
+                                right.label, right.derived, None, right.offset)
+            inverse = quantity_product(_ONE, right, divide=True)
+            return Quantity(inverse.dimension, scale_by_bare(inverse.scales, left.value, False),
+                            inverse.label, True)
+        if isinstance(left, Bare) and isinstance(right, Bare):
+            try:
+                if divide:
+                    return Bare(left.value / right.value) if right.value else UNKNOWN
+                return Bare(left.value * right.value)
+            except (TypeError, OverflowError):
+                return UNKNOWN
+        return UNKNOWN
+
+    def _power(self, node: ast.AST, base: Any, exponent: Any) -> Any:
+        constant = None
+        if isinstance(exponent, Bare):
+            constant = exponent.value
+        elif isinstance(exponent, Unknown) and exponent.const is not None:
+            constant = exponent.const
+        self.report(node, checks.check_exponent(base, exponent, constant is not None))
+        if isinstance(base, Bare) and isinstance(exponent, Bare):
+            try:
+                result = base.value ** exponent.value
+                return Bare(result) if isinstance(result, (int, float)) and abs(result) < 1e300 else UNKNOWN
+            except (OverflowError, ZeroDivisionError, TypeError, ValueError):
+                return UNKNOWN
+        if not isinstance(base, Quantity):
+            return UNKNOWN
+        if base.is_dimensionless and isinstance(exponent, (Quantity, Bare, Unknown)):
+            return Quantity(base.dimension, None if constant is None else base.scales, base.label, True)
+        if constant is None or not isinstance(constant, (int, float)):
+            return UNKNOWN
+        fraction = exact_exponent(constant)
+        if fraction is None:
+            return UNKNOWN
+        return raise_quantity(base, fraction)
+
+    def _expr_UnaryOp(self, node: ast.UnaryOp) -> Any:
+        operand = self.expr(node.operand)
+        if isinstance(node.op, (ast.USub, ast.UAdd)):
+            if isinstance(operand, Bare):
+                return Bare(-operand.value if isinstance(node.op, ast.USub) else operand.value)
+            return operand if isinstance(operand, Quantity) else UNKNOWN
+        return UNKNOWN
+
+    def _expr_Compare(self, node: ast.Compare) -> Any:
+        left = self.expr(node.left)
+        for op, comparator in zip(node.ops, node.comparators):
+            right = self.expr(comparator)
+            if not isinstance(op, _COMPARISON_SKIP):
+                self.report(node, checks.check_combination("compare", left, right))
+            left = right
+        return UNKNOWN
+
+    def _expr_BoolOp(self, node: ast.BoolOp) -> Any:
+        values = [self.expr(value) for value in node.values]
+        result = values[0]
+        for value in values[1:]:
+            result = merge_values(result, value)
+        return result
+
+    def _expr_IfExp(self, node: ast.IfExp) -> Any:
+        self.expr(node.test)
+        body = self.expr(node.body)
+        orelse = self.expr(node.orelse)
+        self.report(node, checks.check_combination("conditional branches", body, orelse))
+        return choose(body, orelse)
+
+    def _expr_NamedExpr(self, node: ast.NamedExpr) -> Any:
+        value = self.expr(node.value)
+        self.bind(node.target, value, node.value)
+        return value
+
+    def _expr_Tuple(self, node: ast.Tuple) -> Any:
+        return TupleValue(tuple(self.expr(element) for element in node.elts))
+
+    def _expr_List(self, node) -> Any:
+        values = [self.expr(element) for element in node.elts]
+        if not values:
+            return UNKNOWN
+        result = values[0]
+        for value in values[1:]:
+            result = choose(result, value) if _compatible(result, value) else UNKNOWN
+        return result if isinstance(result, Quantity) else UNKNOWN
+
+    _expr_Set = _expr_List
+
+    def _expr_Subscript(self, node: ast.Subscript) -> Any:
+        container = self.expr(node.value)
+        index = self.expr(node.slice)
+        if isinstance(container, Quantity):
+            return container
+        if isinstance(container, TupleValue) and isinstance(index, Bare) and isinstance(index.value, int):
+            if -len(container.items) <= index.value < len(container.items):
+                return container.items[index.value]
+        return UNKNOWN
+
+    def _expr_Starred(self, node: ast.Starred) -> Any:
+        self.expr(node.value)
+        return UNKNOWN
+
+    def _comprehension(self, node, element_nodes) -> Any:
+        saved = self.env
+        self.env = dict(saved)
+        try:
+            for generator in node.generators:
+                iterable = self.expr(generator.iter)
+                self.bind(generator.target, element_of(iterable), generator.iter)
+                for condition in generator.ifs:
+                    self.expr(condition)
+            values = [self.expr(element) for element in element_nodes]
+        finally:
+            self.env = saved
+        return values[0] if len(values) == 1 and isinstance(values[0], Quantity) else UNKNOWN
+
+    def _expr_ListComp(self, node) -> Any:
+        return self._comprehension(node, [node.elt])
+
+    _expr_SetComp = _expr_ListComp
+    _expr_GeneratorExp = _expr_ListComp
+
+    def _expr_DictComp(self, node) -> Any:
+        self._comprehension(node, [node.key, node.value])
+        return UNKNOWN
+
+    def _expr_Lambda(self, node: ast.Lambda) -> Any:
+        info = self.engine.nested_function(self.module, node, "<lambda>")
+        return FunctionValue(info, closure=self)
+
+    def _expr_Call(self, node: ast.Call) -> Any:
+        callee = self.expr(node.func)
+        args = []
+        for arg in node.args:
+            if isinstance(arg, ast.Starred):
+                self.expr(arg.value)
+                args.append((_STAR, arg))
+            else:
+                args.append((self.expr(arg), arg))
+        keywords = {}
+        for keyword in node.keywords:
+            value = self.expr(keyword.value)
+            keywords[keyword.arg if keyword.arg is not None else _STAR] = (value, keyword.value)
+        return self.engine.call(callee, args, keywords, node, self)
+
+
+class _Star:
+    """Marks a ``*args`` or ``**kwargs`` at a call site: binding stops there."""
+
+
+_STAR = _Star()
+STAR = _STAR
+_ONE = Quantity(DIMENSIONLESS, (1.0,), "1")
+
+
+def _compatible(a: Any, b: Any) -> bool:
+    if isinstance(a, Quantity) and isinstance(b, Quantity):
+        return a.dimension == b.dimension
+    return isinstance(a, (Quantity, Bare)) and isinstance(b, (Quantity, Bare))
+
+
+def choose(a: Any, b: Any) -> Any:
+    """The value of ``a if c else b``: the known side when the other is a bare number."""
+    if isinstance(a, Quantity) and isinstance(b, Quantity):
+        return a if a.dimension == b.dimension else UNKNOWN
+    if isinstance(a, Quantity) and isinstance(b, Bare):
+        return a
+    if isinstance(b, Quantity) and isinstance(a, Bare):
+        return b
+    return merge_values(a, b)
+
+
+def exact_exponent(value: float) -> Fraction | None:
+    """A literal exponent as an exact fraction (0.5 -> 1/2, 1/3 -> 1/3), or None."""
+    try:
+        fraction = Fraction(value).limit_denominator(1000)
+    except (OverflowError, ValueError, TypeError):
+        return None
+    if abs(float(fraction) - value) > 1e-9 * max(1.0, abs(value)) or abs(fraction) > 1000:
+        return None
+    return fraction

@@ -1,0 +1,241 @@
+"""The set of modules inference can see: the checked files, their neighbours on disk
+that they import, and the stubs (shipped and the user's).
+
+Modules are read and parsed lazily and only once. Nothing here imports or runs the
+code being checked: a module is found by its file name and read as text.
+"""
+
+from __future__ import annotations
+
+import ast
+import io
+import os
+import re
+import tokenize
+from dataclasses import dataclass
+from pathlib import Path
+
+from ..declarations.comments import trailing_comment_units
+from ..declarations.symbols import ImportRef, ModuleSymbols, collect_symbols
+
+SHIPPED_STUBS = Path(__file__).resolve().parent.parent / "stubs"
+
+# Text that can make a module's values known. A module with none of these, importing
+# nothing that has them, has only unknown values: it cannot produce a finding, so the
+# inference pass skips it (parsing it is still needed for DIM902).
+_MARKERS = re.compile(r"Annotated|Unit\(|#\s*\[|\$[A-Za-z_]")
+
+
+class UnreadableFile(Exception):
+    """A file that cannot be read, decoded or parsed; becomes DIM902."""
+
+    def __init__(self, message: str, line: int = 1, column: int = 1):
+        super().__init__(message)
+        self.message = message
+        self.line = line
+        self.column = column
+
+
+def read_source(path: str) -> str:
+    try:
+        with open(path, "rb") as handle:
+            data = handle.read()
+    except IsADirectoryError:
+        raise UnreadableFile("is a directory, not a file") from None
+    except OSError as error:
+        raise UnreadableFile(f"cannot read file: {error.strerror or error}") from None
+    try:
+        encoding, _ = tokenize.detect_encoding(io.BytesIO(data).readline)
+        text = data.decode(encoding)
+    except (SyntaxError, LookupError) as error:
+        raise UnreadableFile(f"cannot decode file: {error}") from None
+    except UnicodeDecodeError as error:
+        line = data[: error.start].count(b"\n") + 1
+        raise UnreadableFile(f"cannot decode file as {error.encoding}: invalid byte at offset "
+                             f"{error.start}", line) from None
+    if text.startswith("\ufeff"):
+        text = text[1:]
+    return text
+
+
+def parse_source(text: str, path: str) -> ast.Module:
+    try:
+        return ast.parse(text, filename=path)
+    except SyntaxError as error:
+        message = error.msg or "invalid syntax"
+        raise UnreadableFile(f"syntax error: {message}", error.lineno or 1, error.offset or 1) from None
+    except ValueError as error:  # null bytes on older Pythons
+        raise UnreadableFile(f"cannot parse file: {error}") from None
+    except (RecursionError, MemoryError):
+        raise UnreadableFile("cannot parse file: nesting too deep for the Python parser") from None
+
+
+def module_name_for(path: Path) -> tuple[str, Path, bool]:
+    """The dotted module name of a file, the folder imports are relative to, and is-package."""
+    path = path.resolve()
+    is_package = path.stem == "__init__"
+    parts = [] if is_package else [path.stem]
+    folder = path.parent
+    if is_package:
+        parts.insert(0, folder.name)
+        folder = folder.parent
+    while (folder / "__init__.py").exists() and folder.parent != folder:
+        parts.insert(0, folder.name)
+        folder = folder.parent
+    return ".".join(parts), folder, is_package
+
+
+@dataclass
+class LoadedModule:
+    symbols: ModuleSymbols | None
+    error: UnreadableFile | None = None
+    text: str | None = None  # the decoded source, when it could be read
+
+
+class Project:
+    def __init__(self, stub_dirs: list[Path] | tuple = ()):
+        self._by_path: dict[str, LoadedModule] = {}
+        self._by_name: dict[str, str] = {}
+        self._roots: list[Path] = []
+        self._stub_paths: dict[str, Path] = {}
+        # user stubs are listed after the shipped ones so that they override them
+        for folder in [SHIPPED_STUBS, *stub_dirs]:
+            self._index_stubs(Path(folder))
+        self._stub_modules: dict[str, ModuleSymbols | None] = {}
+        self._tainted: dict[str, bool] = {}
+
+    # -- stubs ------------------------------------------------------------------------
+    def _index_stubs(self, folder: Path) -> None:
+        if not folder.is_dir():
+            return
+        for stub in sorted(folder.rglob("*.pyi")):
+            relative = stub.relative_to(folder).with_suffix("")
+            parts = list(relative.parts)
+            if parts[-1] == "__init__":
+                parts.pop()
+            if parts:
+                self._stub_paths[".".join(parts)] = stub
+
+    def stub_module(self, name: str) -> ModuleSymbols | None:
+        if name not in self._stub_paths:
+            return None
+        if name not in self._stub_modules:
+            path = self._stub_paths[name]
+            try:
+                text = read_source(str(path))
+                tree = parse_source(text, str(path))
+                symbols = ModuleSymbols(str(path), name, tree, text, trailing_comment_units(text),
+                                        is_package=path.stem == "__init__", is_stub=True)
+                self._stub_modules[name] = collect_symbols(symbols)
+            except UnreadableFile:
+                self._stub_modules[name] = None
+        return self._stub_modules[name]
+
+    def has_stub(self, name: str) -> bool:
+        return name in self._stub_paths
+
+    # -- modules of the checked tree ---------------------------------------------------------
+    def load(self, path: str) -> LoadedModule:
+        key = os.path.abspath(path)
+        loaded = self._by_path.get(key)
+        if loaded is not None:
+            return loaded
+        text = None
+        try:
+            text = read_source(path)
+            tree = parse_source(text, path)
+        except UnreadableFile as error:
+            loaded = LoadedModule(None, error, text)
+            self._by_path[key] = loaded
+            return loaded
+        name, root, is_package = module_name_for(Path(path))
+        if root not in self._roots:
+            self._roots.append(root)
+        symbols = ModuleSymbols(path, name, tree, text, trailing_comment_units(text), is_package=is_package)
+        loaded = LoadedModule(collect_symbols(symbols), None, text)
+        self._by_path[key] = loaded
+        if self._by_name.get(name) is None:
+            self._by_name[name] = key
+        return loaded
+
+    def find_module(self, name: str) -> ModuleSymbols | None:
+        """A module by dotted name: a stub, a module already read, or a file under a root."""
+        if not name:
+            return None
+        stub = self.stub_module(name)
+        if stub is not None:
+            return stub
+        if name in self._by_name:
+            key = self._by_name[name]
+            return None if key is None else self._by_path[key].symbols
+        relative = Path(*name.split("."))
+        for root in list(self._roots):
+            for candidate in (root / relative.with_suffix(".py"), root / relative / "__init__.py"):
+                if candidate.is_file():
+                    loaded = self.load(str(candidate))
+                    self._by_name[name] = os.path.abspath(candidate)
+                    return loaded.symbols
+        self._by_name[name] = None  # remember the miss
+        return None
+
+    def resolve_import(self, module: ModuleSymbols, ref: ImportRef) -> str:
+        """The absolute dotted name an import refers to (for ``from x import y``: x)."""
+        if ref.level == 0:
+            return ref.module
+        package = module.name.split(".") if module.is_package else module.name.split(".")[:-1]
+        if ref.level > 1:
+            package = package[: len(package) - (ref.level - 1)] if len(package) >= ref.level - 1 else []
+        return ".".join(part for part in [*package, ref.module] if part)
+
+    # -- the fast path --------------------------------------------------------------------
+    def can_have_units(self, module: ModuleSymbols) -> bool:
+        """Whether any value in the module can be known (see ``_MARKERS``)."""
+        return self._taint(module, set())
+
+    def _taint(self, module: ModuleSymbols, visiting: set[str]) -> bool:
+        key = module.path
+        if key in self._tainted:
+            return self._tainted[key]
+        if module.is_stub:
+            result = stub_has_units(module)
+            self._tainted[key] = result
+            return result
+        if _MARKERS.search(module.source):
+            self._tainted[key] = True
+            return True
+        visiting.add(key)
+        hit_cycle = False
+        result = False
+        for ref in module.imports.values():
+            base = self.resolve_import(module, ref)
+            names = [base] if ref.attr is None else [f"{base}.{ref.attr}", base]
+            for name in names:
+                target = self.find_module(name)
+                if target is None:
+                    continue
+                if target.path in visiting:
+                    hit_cycle = True
+                    continue
+                if self._taint(target, visiting):
+                    result = True
+                    break
+            if result:
+                break
+        visiting.discard(key)
+        if result or not hit_cycle:
+            self._tainted[key] = result
+        return result
+
+
+_DIMENSIONLESS_SPELLINGS = {"1", "", "-", "dimensionless", "rad", "radian", "deg", "degree"}
+
+
+def stub_has_units(module: ModuleSymbols) -> bool:
+    """A stub taints its importers when it can hand out a known dimension from nothing:
+    a constant with a dimensional unit. (Stub functions give unknown results for unknown
+    arguments.) Read from the text alone; a false yes only costs a fuller analysis."""
+    for spec, _ in module.globals_declared.values():
+        text = getattr(spec, "text", None)
+        if text is None or text.strip() not in _DIMENSIONLESS_SPELLINGS:
+            return True
+    return False

@@ -1,0 +1,214 @@
+"""Abstract values: what the inference pass knows about an expression.
+
+* ``UNKNOWN`` (or an ``Unknown`` carrying a constant) - nothing is known about the
+  dimension; it absorbs everything and never causes a finding.
+* ``Bare`` - a literal number; it takes the unit it is bound to.
+* ``Quantity`` - a known dimension, with the candidate scales it may be in.
+* ``TupleValue`` and the reference values (functions, classes, modules, instances)
+  carry structure so that unpacking, calls and attribute access can be followed.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from typing import TYPE_CHECKING, Any
+
+from ..units.dimension import DIMENSIONLESS, Dimension
+from .labels import compose_label, si_label
+
+if TYPE_CHECKING:
+    from ..declarations.symbols import ClassInfo, FunctionInfo
+
+MAX_SCALE_CANDIDATES = 8
+SCALE_TOLERANCE = 1e-9
+
+
+class Unknown:
+    """Nothing is known about the dimension. ``const`` keeps a folded numeric value."""
+
+    __slots__ = ("const",)
+
+    def __init__(self, const: float | None = None):
+        self.const = const
+
+    def __repr__(self) -> str:
+        return "UNKNOWN" if self.const is None else f"Unknown(const={self.const!r})"
+
+
+UNKNOWN = Unknown()
+
+
+@dataclass(frozen=True, slots=True)
+class Origin:
+    """Where a unit came from: file, line and the kind of declaration."""
+
+    path: str
+    line: int
+    kind: str  # "annotation", "comment", "stub", ...
+    name: str = ""
+
+
+class Bare:
+    """A numeric literal (or arithmetic of literals) with no unit of its own."""
+
+    __slots__ = ("value",)
+
+    def __init__(self, value: float):
+        self.value = value
+
+    @property
+    def is_zero(self) -> bool:
+        return self.value == 0
+
+    def __repr__(self) -> str:
+        return f"Bare({self.value!r})"
+
+
+class Quantity:
+    """A value of known dimension.
+
+    ``scales`` holds the candidate SI factors of the number's unit (more than one
+    after multiplying by a bare factor, which may be a coefficient or a conversion);
+    ``None`` means the scale is open (a dimension-only declaration).
+    """
+
+    __slots__ = ("dimension", "scales", "label", "derived", "origin", "offset")
+
+    def __init__(self, dimension: Dimension, scales: tuple[float, ...] | None, label: str,
+                 derived: bool = False, origin: Origin | None = None, offset: bool = False):
+        self.dimension = dimension
+        self.scales = scales
+        self.label = label
+        self.derived = derived
+        self.origin = origin
+        self.offset = offset
+
+    def __repr__(self) -> str:
+        return f"Quantity({self.describe()}, scales={self.scales})"
+
+    @property
+    def is_dimensionless(self) -> bool:
+        return self.dimension.is_dimensionless
+
+    def display_unit(self) -> str:
+        """The unit as the user wrote it, or a coherent SI form for a derived value."""
+        if self.derived and (self.scales is None or any(_close(s, 1.0) for s in self.scales)):
+            return si_label(self.dimension)
+        return self.label
+
+    def describe(self) -> str:
+        """``m/s [L T^-1]``: the unit and the dimension, for messages."""
+        return f"{self.display_unit()} [{self.dimension.format()}]"
+
+    def with_label(self, label: str) -> "Quantity":
+        return Quantity(self.dimension, self.scales, label, True, None, self.offset)
+
+
+@dataclass(slots=True)
+class TupleValue:
+    items: tuple[Any, ...]
+
+
+@dataclass(slots=True)
+class FunctionValue:
+    function: "FunctionInfo"
+    bound_self: Any = None  # the instance (or class) a method is bound to
+    closure: Any = None  # the enclosing scope of a nested function or lambda
+
+
+@dataclass(slots=True)
+class ClassValue:
+    info: "ClassInfo"
+
+
+@dataclass(slots=True)
+class InstanceValue:
+    info: "ClassInfo"
+
+
+@dataclass(slots=True)
+class ModuleValue:
+    """A module of the checked tree or a stubbed library module."""
+
+    name: str
+    attributes: dict = field(default_factory=dict)
+
+
+# -- scale arithmetic ---------------------------------------------------------------
+
+def _close(a: float, b: float) -> bool:
+    return math.isclose(a, b, rel_tol=SCALE_TOLERANCE)
+
+
+def scales_overlap(a: tuple[float, ...] | None, b: tuple[float, ...] | None) -> bool:
+    """True when the two candidate sets share a scale, or either is open."""
+    if a is None or b is None:
+        return True
+    return any(_close(x, y) for x in a for y in b)
+
+
+def _dedupe(values) -> tuple[float, ...] | None:
+    result: list[float] = []
+    for value in values:
+        if not math.isfinite(value) or value == 0:
+            return None
+        if not any(_close(value, kept) for kept in result):
+            result.append(value)
+    if len(result) > MAX_SCALE_CANDIDATES:
+        return None
+    return tuple(result)
+
+
+def multiply_scales(a, b):
+    if a is None or b is None:
+        return None
+    return _dedupe(x * y for x in a for y in b)
+
+
+def divide_scales(a, b):
+    if a is None or b is None:
+        return None
+    return _dedupe(x / y for x in a for y in b)
+
+
+def power_scales(a, exponent: float):
+    if a is None:
+        return None
+    try:
+        return _dedupe(x ** exponent for x in a)
+    except (OverflowError, ZeroDivisionError, ValueError):
+        return None
+
+
+def scale_by_bare(scales, factor: float, divide: bool):
+    """A value times (or over) a bare factor: still in its unit, or converted by it."""
+    if scales is None or factor == 0 or not math.isfinite(factor):
+        return scales
+    converted = [s * factor if divide else s / factor for s in scales]
+    return _dedupe(list(scales) + converted)
+
+
+def intersect_scales(a, b):
+    if a is None:
+        return b
+    if b is None:
+        return a
+    common = tuple(x for x in a if any(_close(x, y) for y in b))
+    return common or a
+
+
+def dimensionless_quantity(label: str = "1") -> Quantity:
+    return Quantity(DIMENSIONLESS, (1.0,), label)
+
+
+def quantity_product(left: Quantity, right: Quantity, divide: bool) -> Quantity:
+    dimension = left.dimension / right.dimension if divide else left.dimension * right.dimension
+    scales = divide_scales(left.scales, right.scales) if divide else multiply_scales(left.scales, right.scales)
+    label = compose_label(left.display_unit(), "/" if divide else "*", right.display_unit())
+    return Quantity(dimension, scales, label, derived=True)
+
+
+def same_quantity_kind(a: Any, b: Any) -> bool:
+    """Equal dimension (used when merging branches)."""
+    return isinstance(a, Quantity) and isinstance(b, Quantity) and a.dimension == b.dimension

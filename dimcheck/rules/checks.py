@@ -1,0 +1,131 @@
+"""The rule checks. The inference pass calls these where values meet; each returns a
+``Problem`` (rule code and message) or ``None``. Where the problem is in the source is
+the caller's business: these functions only decide *whether* and *what to say*.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from ..inference.labels import si_label
+from ..inference.values import Bare, Quantity, scales_overlap
+
+_DEGREE = math.pi / 180.0
+
+
+@dataclass(frozen=True, slots=True)
+class Problem:
+    code: str
+    message: str
+
+
+def _factor_text(value_scale: float, target_scale: float) -> str:
+    factor = value_scale / target_scale
+    return f"{factor:.6g}"
+
+
+def _scale_hint(value: Quantity, target: Quantity) -> str:
+    """``multiply by 0.001`` when both sides have one definite scale."""
+    if value.scales and target.scales and len(target.scales) == 1:
+        # prefer the value's own unit (the first candidate) for the advice
+        return f"multiply by {_factor_text(value.scales[0], target.scales[0])}"
+    return "convert explicitly"
+
+
+def _missing_factor(value: Quantity, declared: Quantity) -> str:
+    missing = declared.dimension / value.dimension
+    if missing.is_dimensionless:
+        return ""
+    return f"; missing a factor of {si_label(missing)} [{missing.format()}]"
+
+
+def _is_degree_to_radian(value: Quantity, target: Quantity) -> bool:
+    return (value.is_dimensionless and target.is_dimensionless and value.scales is not None
+            and target.scales is not None and len(value.scales) == 1
+            and math.isclose(value.scales[0], _DEGREE, rel_tol=1e-9)
+            and any(math.isclose(s, 1.0) for s in target.scales))
+
+
+_SUM_VERBS = {
+    "add": "cannot add {right} to {left}",
+    "subtract": "cannot subtract {right} from {left}",
+    "compare": "cannot compare {left} with {right}",
+}
+
+
+def check_combination(verb: str, left, right) -> Problem | None:
+    """Two values meeting in a sum, difference, comparison, min/max or branch choice.
+
+    ``verb`` is ``add``, ``subtract``, ``compare`` or a phrase such as
+    ``members of max()`` used for the other combinations.
+    """
+    if isinstance(left, Quantity) and isinstance(right, Quantity):
+        if left.dimension != right.dimension:
+            template = _SUM_VERBS.get(verb, verb + " disagree: {left} and {right}")
+            return Problem("DIM101", template.format(left=left.describe(), right=right.describe()))
+        if not scales_overlap(left.scales, right.scales):
+            return Problem("DIM201", f"{verb}: {left.display_unit()} and {right.display_unit()} "
+                                     f"have the same dimension [{left.dimension.format()}] but different "
+                                     f"scales; {_scale_hint(right, left)} to bring the "
+                                     f"{right.display_unit()} value to {left.display_unit()}")
+        return None
+    quantity, bare = (left, right) if isinstance(left, Quantity) else (right, left)
+    if isinstance(quantity, Quantity) and isinstance(bare, Bare):
+        if not bare.is_zero and not quantity.is_dimensionless:
+            action = "compared with" if verb == "compare" else "combined with"
+            return Problem("DIM203", f"bare number {_number(bare.value)} {action} "
+                                     f"{quantity.describe()}; give the number a unit")
+    return None
+
+
+def _number(value) -> str:
+    return f"{value:g}" if isinstance(value, float) else str(value)
+
+
+def check_binding(what: str, declared: Quantity, value) -> Problem | None:
+    """A value bound to a declared name, attribute or return (DIM103, DIM201)."""
+    if not isinstance(value, Quantity):
+        return None
+    if value.dimension != declared.dimension:
+        return Problem("DIM103", f"{what} is declared {declared.describe()} but the value is "
+                                 f"{value.describe()}{_missing_factor(value, declared)}")
+    if not scales_overlap(value.scales, declared.scales):
+        return Problem("DIM201", f"{what} is declared {declared.display_unit()} but the value is in "
+                                 f"{value.display_unit()} (same dimension [{declared.dimension.format()}]); "
+                                 f"{_scale_hint(value, declared)}")
+    return None
+
+
+def check_argument(param: str, function: str, declared: Quantity, value,
+                   transcendental: bool = False) -> Problem | None:
+    """A call argument against its parameter's declared unit (DIM104, DIM102, DIM201, DIM202)."""
+    if not isinstance(value, Quantity):
+        return None
+    if value.dimension != declared.dimension:
+        if transcendental and declared.is_dimensionless:
+            return Problem("DIM102", f"argument of {function}() must be dimensionless, "
+                                     f"got {value.describe()}")
+        return Problem("DIM104", f"argument '{param}' of {function}() expects {declared.describe()} "
+                                 f"but got {value.describe()}{_missing_factor(value, declared)}")
+    if scales_overlap(value.scales, declared.scales):
+        return None
+    if _is_degree_to_radian(value, declared):
+        return Problem("DIM202", f"value in {value.display_unit()} reaches {function}(), which expects "
+                                 f"radians; convert with math.radians() or multiply by pi/180")
+    if transcendental and declared.is_dimensionless:
+        return None  # a ratio of like quantities at mixed scales: too common to flag here
+    return Problem("DIM201", f"argument '{param}' of {function}() expects {declared.display_unit()} "
+                             f"but got {value.display_unit()} (same dimension "
+                             f"[{declared.dimension.format()}]); {_scale_hint(value, declared)}")
+
+
+def check_exponent(base, exponent, exponent_is_constant: bool) -> Problem | None:
+    """``base ** exponent`` (DIM105)."""
+    if isinstance(exponent, Quantity) and not exponent.is_dimensionless:
+        return Problem("DIM105", f"exponent must be dimensionless, got {exponent.describe()}")
+    if (isinstance(base, Quantity) and not base.is_dimensionless and not exponent_is_constant
+            and isinstance(exponent, Quantity)):
+        return Problem("DIM105", f"{base.describe()} raised to a power that is not a constant; "
+                                 f"the result's dimension would depend on a run-time value")
+    return None

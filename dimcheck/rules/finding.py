@@ -1,0 +1,30 @@
+"""Findings as data: the checker creates them, the reporters turn them into text."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from .registry import RULES
+
+
+@dataclass(frozen=True, slots=True)
+class Finding:
+    path: str
+    line: int
+    column: int  # 1-based
+    end_line: int
+    end_column: int  # 1-based, exclusive
+    code: str
+    message: str
+    cell: int | None = None  # 1-based notebook cell, when the file is a notebook
+
+    @property
+    def name(self) -> str:
+        return RULES[self.code].name
+
+    @property
+    def severity(self) -> str:
+        return RULES[self.code].severity
+
+    def sort_key(self) -> tuple:
+        return (self.path, self.cell or 0, self.line, self.column, self.code, self.message)

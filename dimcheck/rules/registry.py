@@ -1,0 +1,53 @@
+"""The one registry of rule codes.
+
+Selection, suppression, the rules command, the docs and the SARIF rule list are all
+generated from this table, so they cannot disagree.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+ERROR = "error"
+WARNING = "warning"
+SEVERITY_RANK = {WARNING: 1, ERROR: 2}
+
+
+@dataclass(frozen=True, slots=True)
+class Rule:
+    code: str
+    name: str
+    severity: str
+    summary: str
+
+
+_RULES = (
+    Rule("DIM101", "mixed-sum", ERROR,
+         "a sum, difference, comparison, min/max/sum or branch choice combines different dimensions"),
+    Rule("DIM102", "transcendental-arg", ERROR,
+         "the argument of exp, log, trig, hyperbolic or a similar function is not dimensionless"),
+    Rule("DIM103", "declared-mismatch", ERROR,
+         "a value's dimension differs from the declared unit of the name, attribute or return it is bound to"),
+    Rule("DIM104", "argument-mismatch", ERROR,
+         "a call argument's dimension differs from the declared unit of its parameter"),
+    Rule("DIM105", "dimensional-exponent", ERROR,
+         "an exponent has a dimension, or a dimensional base is raised to a power that is not a constant"),
+    Rule("DIM201", "scale-mismatch", WARNING,
+         "the same dimension at a different scale (mm and m, kPa and Pa) is combined or bound with no conversion"),
+    Rule("DIM202", "angle-scale", WARNING,
+         "a value declared in degrees reaches a function that expects radians"),
+    Rule("DIM203", "bare-number-in-sum", WARNING,
+         "a non-zero bare number is added to or compared with a dimensional value"),
+    Rule("DIM901", "bad-unit", ERROR,
+         "a declared unit expression cannot be parsed or is unknown"),
+    Rule("DIM902", "unreadable-file", ERROR,
+         "a file cannot be read or parsed"),
+)
+
+RULES: dict[str, Rule] = {rule.code: rule for rule in _RULES}
+
+
+def matching_codes(selector: str) -> list[str]:
+    """Codes named by a selector: a full code (``DIM101``) or a prefix (``DIM1``, ``DIM``)."""
+    selector = selector.strip().upper()
+    return [code for code in RULES if code.startswith(selector)]

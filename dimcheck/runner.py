@@ -1,0 +1,108 @@
+"""A run from files to findings: discover, read, infer, check, filter, sort.
+
+This is the one place the pipeline is put together; the command line, the API in
+``dimcheck/__init__.py`` and the tests all come through here.
+"""
+
+from __future__ import annotations
+
+import os
+import sys
+from dataclasses import dataclass, field
+
+from .cli.config import Config
+from .cli.discovery import discover
+from .declarations.suppressions import is_suppressed, skips_file
+from .inference.engine import Engine
+from .inference.evaluator import Located
+from .inference.project import Project
+from .rules.finding import Finding
+from .rules.registry import RULES, SEVERITY_RANK
+from .units import load_unit_table
+
+
+@dataclass
+class Report:
+    files_checked: int = 0
+    findings: list[Finding] = field(default_factory=list)
+    errors: list[str] = field(default_factory=list)  # paths that could not be checked at all
+
+    def fails(self, fail_on: str) -> bool:
+        threshold = SEVERITY_RANK[fail_on]
+        return any(SEVERITY_RANK[f.severity] >= threshold for f in self.findings)
+
+
+def display_path(path: str) -> str:
+    """Paths in reports are relative to the current directory."""
+    try:
+        relative = os.path.relpath(path)
+    except ValueError:
+        return path
+    return path if relative.startswith("..") and os.path.isabs(path) else relative
+
+
+def _message(located: Located) -> str:
+    if not located.chain:
+        return located.problem.message
+    return f"{located.problem.message} (inside {', via '.join(located.chain)})"
+
+
+def _finding(located: Located, shown_path: str) -> Finding:
+    end_line = max(located.end_line, located.line)
+    return Finding(shown_path, located.line, located.column + 1, end_line, located.end_column + 1,
+                   located.problem.code, _message(located))
+
+
+class Checker:
+    """Checks files against one configuration; reusable across calls (keeps its unit table)."""
+
+    def __init__(self, config: Config | None = None, select: list[str] | None = None,
+                 ignore: list[str] | None = None):
+        self.config = config or Config()
+        chosen = select if select is not None else self.config.select
+        self.codes = set(chosen or RULES)
+        self.codes -= set(ignore if ignore is not None else self.config.ignore)
+        self.table = load_unit_table(self.config.units, self.config.base_dimensions)
+
+    def _keep(self, code: str, line_text: str) -> bool:
+        return code in self.codes and not is_suppressed(code, line_text)
+
+    def check_files(self, files: list[str]) -> list[Finding]:
+        project = Project(self.config.stubs)
+        engine = Engine(project, self.table)
+        findings: list[Finding] = []
+        old_limit = sys.getrecursionlimit()
+        sys.setrecursionlimit(max(old_limit, 10000))
+        try:
+            for path in files:
+                findings.extend(self._check_file(project, engine, path))
+        finally:
+            sys.setrecursionlimit(old_limit)
+        findings.sort(key=Finding.sort_key)
+        return findings
+
+    def _check_file(self, project: Project, engine: Engine, path: str) -> list[Finding]:
+        shown = display_path(path)
+        loaded = project.load(path)
+        if loaded.text is not None and skips_file(loaded.text):
+            return []
+        if loaded.symbols is None:
+            error = loaded.error
+            if "DIM902" not in self.codes:
+                return []
+            return [Finding(shown, error.line, error.column, error.line, error.column, "DIM902",
+                            error.message)]
+        module = loaded.symbols
+        results = []
+        for located in engine.check_module(module):
+            if self._keep(located.problem.code, module.line_text(located.line)):
+                results.append(_finding(located, shown))
+        return results
+
+
+def check_paths(paths: list[str], config: Config | None = None, select: list[str] | None = None,
+                ignore: list[str] | None = None) -> Report:
+    config = config or Config()
+    files, errors = discover(paths, config.exclude)
+    checker = Checker(config, select, ignore)
+    return Report(len(files), checker.check_files(files), errors)
