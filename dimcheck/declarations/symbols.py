@@ -91,6 +91,7 @@ class ModuleSymbols:
     imports: dict[str, ImportRef] = field(default_factory=dict)
     # every function and method, for the baseline pass; nested ones are found on the way
     all_functions: list[FunctionInfo] = field(default_factory=list)
+    comment_specs: dict[int, UnitText] = field(default_factory=dict)
 
     _lines: list[str] | None = None
 
@@ -114,10 +115,16 @@ def decorator_names(node) -> frozenset[str]:
 
 
 def comment_spec(module: ModuleSymbols, first_line: int, last_line: int) -> UnitText | None:
+    """The unit of a trailing comment on any line of a statement (one object per comment)."""
+    if not module.comment_units:
+        return None
     for line in range(first_line, last_line + 1):
         found = module.comment_units.get(line)
         if found is not None:
-            return UnitText(found.text, _CommentNode(found))
+            spec = module.comment_specs.get(line)
+            if spec is None:
+                spec = module.comment_specs[line] = UnitText(found.text, _CommentNode(found))
+            return spec
     return None
 
 
@@ -148,9 +155,7 @@ def read_parameters(module: ModuleSymbols, node) -> list[ParamInfo]:
     def spec_of(arg: ast.arg) -> UnitSpec:
         spec = read_annotation(arg.annotation) if not isinstance(node, ast.Lambda) else None
         if spec is None and multi_line and args_per_line.get(arg.lineno) == 1:
-            found = module.comment_units.get(arg.lineno)
-            if found is not None:
-                spec = UnitText(found.text, _CommentNode(found))
+            spec = comment_spec(module, arg.lineno, arg.lineno)
         return spec
 
     positional = args.posonlyargs + args.args

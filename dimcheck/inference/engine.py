@@ -27,7 +27,7 @@ from .evaluator import STAR, Located, ScopeEvaluator, merge_values
 from .generic import GenericSyntaxError, GenericUnit, parse_generic
 from .project import Project
 from .values import (
-    UNKNOWN, Bare, ClassValue, FunctionValue, InstanceValue, ModuleValue, Origin, Quantity,
+    RECURSION, UNKNOWN, Bare, ClassValue, FunctionValue, InstanceValue, ModuleValue, Origin, Quantity,
     TupleValue, Unknown,
 )
 
@@ -64,7 +64,7 @@ def _informative(value: Any) -> bool:
 
 
 def merge_returns(values: list[Any]) -> Any:
-    known = [v for v in values if not (isinstance(v, Bare) and v.is_zero)]
+    known = [v for v in values if not (isinstance(v, Bare) and v.is_zero) and v is not RECURSION]
     if not known:
         return UNKNOWN
     result = known[0]
@@ -102,7 +102,7 @@ class Engine:
     def declared(self, module: ModuleSymbols, spec) -> Quantity | GenericUnit | None:
         if spec is None:
             return None
-        key = (module.path, id(spec))
+        key = (module.path, spec)  # specs hash by text and node identity: stable while trees live
         if key in self._declared:
             return self._declared[key]
         self._declared[key] = None  # a cycle of aliases resolves to nothing
@@ -320,7 +320,7 @@ class Engine:
         if result is not None:
             return result
         if key in self._in_baseline:
-            return FunctionResult(UNKNOWN)
+            return FunctionResult(RECURSION)
         self._in_baseline.add(key)
         try:
             result = self._run_function(function, None, None, baseline=True)
@@ -346,7 +346,7 @@ class Engine:
                 owner = function.owner
                 scope.env[param.name] = ClassValue(owner) if function.is_classmethod else InstanceValue(owner)
             else:
-                scope.env[param.name] = UNKNOWN
+                scope.env[param.name] = self.instance_of_annotation(function.module, param.node.annotation)
         if isinstance(function.node, ast.Lambda):
             scope.returns.append(scope.expr(function.node.body))
         else:
@@ -359,7 +359,9 @@ class Engine:
         cached = self._call_results.get(key)
         if cached is not None:
             return cached
-        if key in self._in_call or self._call_depth >= MAX_CALL_DEPTH:
+        if key in self._in_call:
+            return FunctionResult(RECURSION)
+        if self._call_depth >= MAX_CALL_DEPTH:
             return FunctionResult(UNKNOWN)
         self._in_call.add(key)
         self._call_depth += 1
@@ -470,10 +472,32 @@ class Engine:
             return returned if isinstance(returned, Quantity) else outcome.value
         if isinstance(returned, Quantity):
             return returned
+        if getattr(function.node, "returns", None) is not None:
+            instance = self.instance_of_annotation(module, function.node.returns)
+            if instance is not UNKNOWN:
+                return instance
         if callee.closure is not None:
             done = self._baselines.get(id(function.node))
             return done.value if done is not None else UNKNOWN
         return self.baseline(function).value
+
+    def instance_of_annotation(self, module: ModuleSymbols, annotation) -> Any:
+        """``p: Pipe`` where Pipe is a class of the checked code: an instance of it."""
+        if not isinstance(annotation, (ast.Name, ast.Attribute)):
+            return UNKNOWN
+        parts = []
+        node = annotation
+        while isinstance(node, ast.Attribute):
+            parts.append(node.attr)
+            node = node.value
+        if not isinstance(node, ast.Name):
+            return UNKNOWN
+        value = self.module_name_value(module, node.id)
+        for attr in reversed(parts):
+            if not isinstance(value, ModuleValue):
+                return UNKNOWN
+            value = self.attribute_value(value, attr, None)
+        return InstanceValue(value.info) if isinstance(value, ClassValue) else UNKNOWN
 
     def _lookup_unit(self, text: str) -> Quantity | None:
         try:

@@ -37,6 +37,9 @@ class Unknown:
 
 
 UNKNOWN = Unknown()
+# The result of a call that is already being analysed (recursion): unknown, but left
+# out when a function's returns are merged, so ``return x`` elsewhere still counts.
+RECURSION = Unknown()
 
 
 @dataclass(frozen=True, slots=True)
