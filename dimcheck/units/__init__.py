@@ -2,5 +2,16 @@
 
 from .dimension import DIMENSIONLESS, Dimension
 from .unit import DIMENSIONLESS_UNIT, Unit, UnitError
+from .table import UnitTable, load_unit_table
+from .expression import parse_unit
 
-__all__ = ["DIMENSIONLESS", "DIMENSIONLESS_UNIT", "Dimension", "Unit", "UnitError"]
+__all__ = [
+    "DIMENSIONLESS",
+    "DIMENSIONLESS_UNIT",
+    "Dimension",
+    "Unit",
+    "UnitError",
+    "UnitTable",
+    "load_unit_table",
+    "parse_unit",
+]
