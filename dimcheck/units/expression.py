@@ -46,7 +46,7 @@ _MAX_NUMBER = 10**6
 
 _NUMBER = re.compile(r"(?:\d+\.?\d*|\.\d+)(?:[eE]([+-]?\d+))?")
 _SUPERSCRIPTS = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹⁻", "0123456789-")
-_NAME_EXTRA = "_°∞"
+_NAME_EXTRA = "_°"
 _SINGLE_CHARACTER_NAMES = "%‰"
 _MULTIPLY_SIGNS = "*·⋅×"
 _POWER_WORDS_AFTER = {"squared": "2", "cubed": "3"}

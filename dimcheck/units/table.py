@@ -285,10 +285,7 @@ def _build_table(key: str, paths: Sequence[Path], extras: Sequence[str]) -> Unit
     for name in extras:
         _define_base_dimension(registry, name)
     for path in paths:
-        try:
-            registry.load_definitions(str(path))
-        except Exception as error:  # pint raises many kinds; all mean "bad file"
-            raise UnitError(f"cannot load unit definitions from {path}: {_one_line(error)}") from None
+        _load_definition_file(registry, path)
 
     dimensions: list[Dimension] = []
     dimension_index: dict[Dimension, int] = {}
@@ -325,6 +322,18 @@ def _build_table(key: str, paths: Sequence[Path], extras: Sequence[str]) -> Unit
         suffixes=list(registry._suffixes),
         dimension_names=dimension_names,
     )
+
+
+def _load_definition_file(registry, path: Path) -> None:
+    known = set(registry._units)
+    try:
+        registry.load_definitions(str(path))
+        # pint resolves definitions lazily; resolve the new ones now so that a unit
+        # built on an undefined name is reported against this file.
+        for name in set(registry._units) - known:
+            registry.get_base_units(name)
+    except Exception as error:  # pint raises many kinds; all mean "bad file"
+        raise UnitError(f"cannot load unit definitions from {path}: {_one_line(error)}") from None
 
 
 def _define_base_dimension(registry, name: str) -> None:
