@@ -244,8 +244,10 @@ class _Parser:
         return value
 
     def _numeric_power(self, base: Fraction, power: Fraction, operator: _Token) -> Fraction:
-        if power.denominator != 1 or abs(power) > MAX_EXPONENT:
-            self._fail_at(operator, f"unsupported power {power} inside an exponent")
+        if power.denominator != 1:
+            self._fail_at(operator, f"fractional power {power} of a number inside an exponent is not supported")
+        if abs(power) > MAX_EXPONENT:
+            self._fail_at(operator, "number too large in exponent")
         if base == 0 and power < 0:
             self._fail_at(operator, "division by zero in exponent")
         if abs(base) > 1 and abs(power) * math.log10(abs(base)) > 7:
