@@ -342,7 +342,7 @@ def _tokenize(text: str) -> list[_Token]:
         elif char in _SINGLE_CHARACTER_NAMES:
             end = index + 1
             tokens.append(_Token("name", char, column, spaced))
-        elif "0" <= char <= "9" or (char == "." and text[index + 1 : index + 2].isdigit()):
+        elif "0" <= char <= "9" or (char == "." and "0" <= text[index + 1 : index + 2] <= "9"):
             match = _NUMBER.match(text, index)
             end = match.end()
             tokens.append(_Token("number", match.group(), column, spaced))

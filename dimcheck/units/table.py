@@ -13,12 +13,10 @@ kilogram dropped, first candidate wins. Pint warns about ambiguous names such as
 
 from __future__ import annotations
 
-import difflib
 import hashlib
 import importlib.metadata
 import json
 import os
-import tempfile
 from pathlib import Path
 from typing import Sequence
 
@@ -140,6 +138,8 @@ class UnitTable:
 
     def suggestions(self, name: str, limit: int = 3) -> list[str]:
         """Close spellings of known units, for "did you mean" in error messages."""
+        import difflib  # only on the error path
+
         known = [name for name, index in self._names.items() if self._definitions[index][1] != _UNSUPPORTED]
         return difflib.get_close_matches(name, known, n=limit, cutoff=0.6)
 
@@ -255,6 +255,8 @@ def _read_cache(cache_file: Path, key: str) -> UnitTable | None:
 
 def _write_cache(cache_file: Path, table: UnitTable) -> None:
     """Write atomically (temp file + rename); an unwritable cache just means no cache."""
+    import tempfile  # only on a cache miss
+
     temp_name = None
     try:
         cache_file.parent.mkdir(parents=True, exist_ok=True)

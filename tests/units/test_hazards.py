@@ -57,6 +57,8 @@ HAZARDS = [
     ("m**inf", "exponent must be a number"),
     ("m**nan", "exponent must be a number"),
     ("m^.", "unexpected character '.'"),
+    (".²", "unexpected character '.'"),
+    ("m**٣", "unexpected character '٣'"),
 ]
 
 
@@ -105,3 +107,13 @@ def test_any_text_gives_a_unit_or_a_unit_error(table, text):
     else:
         assert isinstance(result, Unit)
     assert time.perf_counter() - start < 0.5
+
+
+@settings(max_examples=300, deadline=None)
+@given(st.text(max_size=40))
+def test_any_unicode_text_gives_a_unit_or_a_unit_error(table, text):
+    # Fuzzing with arbitrary characters (digits of other scripts, superscripts, symbols).
+    try:
+        parse_unit(text, table)
+    except UnitError:
+        pass
