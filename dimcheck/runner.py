@@ -6,6 +6,7 @@ This is the one place the pipeline is put together; the command line, the API in
 
 from __future__ import annotations
 
+import gc
 import os
 import sys
 from dataclasses import dataclass, field
@@ -73,11 +74,17 @@ class Checker:
         findings: list[Finding] = []
         old_limit = sys.getrecursionlimit()
         sys.setrecursionlimit(max(old_limit, 10000))
+        # Syntax trees make millions of objects and no reference cycles worth collecting:
+        # with the cyclic collector on, parsing a large tree takes several times longer.
+        gc_was_enabled = gc.isenabled()
+        gc.disable()
         try:
             for path in files:
                 findings.extend(self._check_file(project, engine, path))
         finally:
             sys.setrecursionlimit(old_limit)
+            if gc_was_enabled:
+                gc.enable()
         findings.sort(key=Finding.sort_key)
         return findings
 

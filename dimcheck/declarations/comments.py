@@ -15,7 +15,7 @@ import tokenize
 from dataclasses import dataclass
 
 # Characters that never appear in a unit expression; a bracket holding one is prose.
-_NOT_UNIT_CHARS = re.compile(r"[,=;'\"`{}<>!?@&|\\]|\.\.\.")
+_NOT_UNIT_CHARS = re.compile(r"[,=;:+#'\"`{}<>!?@&|\\]|\.\.\.")
 _CANDIDATE_LINE = re.compile(r"#\s*\[")
 
 
@@ -41,8 +41,19 @@ def read_bracket(comment: str) -> tuple[str, int] | None:
     content = stripped[1:close]
     if "[" in content or _NOT_UNIT_CHARS.search(content):
         return None
+    if content.strip().isdigit() and content.strip() != "1":
+        return None  # "[4] pg. 220": a reference number, not a unit
     offset = len(comment) - len(stripped) + 1
     return content.strip(), offset
+
+
+_CANDIDATE_COMMENT = re.compile(r"#\s*\[[^\n]*")
+
+
+def _has_candidate(source: str) -> bool:
+    """A cheap text scan: is there any ``# [...]`` that would read as a unit? Only then
+    is the file tokenized (which tells real comments from ``#`` inside strings)."""
+    return any(read_bracket(match.group()) is not None for match in _CANDIDATE_COMMENT.finditer(source))
 
 
 def trailing_comment_units(source: str) -> dict[int, CommentUnit]:
@@ -51,7 +62,7 @@ def trailing_comment_units(source: str) -> dict[int, CommentUnit]:
     Comments alone on their line are ignored: the contract reads only comments that
     trail code (an assignment or a parameter of a multi-line signature).
     """
-    if not _CANDIDATE_LINE.search(source):
+    if not _CANDIDATE_LINE.search(source) or not _has_candidate(source):
         return {}
     found: dict[int, CommentUnit] = {}
     code_on_line: set[int] = set()

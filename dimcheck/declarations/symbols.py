@@ -233,8 +233,9 @@ def read_class(module: ModuleSymbols, node: ast.ClassDef, qualname: str) -> Clas
             method = make_function(module, stmt, f"{qualname}.{stmt.name}", cls)
             cls.methods[stmt.name] = method
             module.all_functions.append(method)
-    for method in cls.methods.values():
-        _self_attribute_declarations(cls, method.node, module)
+    if module.comment_units or "Annotated" in module.source:  # else there is nothing to find
+        for method in cls.methods.values():
+            _self_attribute_declarations(cls, method.node, module)
     return cls
 
 

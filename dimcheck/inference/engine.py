@@ -97,6 +97,7 @@ class Engine:
         self._nested: dict[int, FunctionInfo] = {}
         self._constructors: dict[int, FunctionInfo] = {}
         self._bases: dict[int, list[ClassInfo]] = {}
+        self._importing: set[tuple] = set()
 
     # == declarations ======================================================================
     def declared(self, module: ModuleSymbols, spec) -> Quantity | GenericUnit | None:
@@ -177,8 +178,8 @@ class Engine:
             return env
         env = {}
         self._module_envs[module.path] = env  # partial while it runs: import cycles see this
-        if module.is_stub:
-            return env
+        if module.is_stub or not self.project.can_have_units(module):
+            return env  # names then come from the declarations: functions, classes, imports
         evaluator = ScopeEvaluator(self, module, env)
         evaluator.run(module.tree.body)
         self._module_envs[module.path] = evaluator.env
@@ -209,6 +210,16 @@ class Engine:
                 or name in module.imports or name in self._module_envs.get(module.path, ()))
 
     def import_value(self, module: ModuleSymbols, ref: ImportRef) -> Any:
+        key = (module.path, ref)
+        if key in self._importing:  # re-exports that go round in a circle
+            return UNKNOWN
+        self._importing.add(key)
+        try:
+            return self._import_value(module, ref)
+        finally:
+            self._importing.discard(key)
+
+    def _import_value(self, module: ModuleSymbols, ref: ImportRef) -> Any:
         base = self.project.resolve_import(module, ref)
         if ref.attr is None:
             return ModuleValue(base)

@@ -20,10 +20,20 @@ from ..declarations.symbols import ImportRef, ModuleSymbols, collect_symbols
 
 SHIPPED_STUBS = Path(__file__).resolve().parent.parent / "stubs"
 
-# Text that can make a module's values known. A module with none of these, importing
-# nothing that has them, has only unknown values: it cannot produce a finding, so the
-# inference pass skips it (parsing it is still needed for DIM902).
-_MARKERS = re.compile(r"Annotated|Unit\(|#\s*\[|\$[A-Za-z_]")
+# Text that can make a module's values known (besides comment declarations). A module
+# with none, importing nothing that has any, has only unknown values: it cannot produce
+# a finding, so the inference pass skips it (parsing it is still needed for DIM902).
+_MARKERS = re.compile(r"""Annotated\[[^\]\n]*,\s*(?:["']|[\w.]*Unit\()|\bUnit\(\s*["']""")
+
+
+# Comment declarations that cannot start a finding anywhere: every value built from them
+# is dimensionless at scale 1. Real code is full of "# [1]" after citations, which the
+# contract reads as dimensionless; they must not send whole packages through inference.
+_PLAIN_DIMENSIONLESS = frozenset({"1", "", "-", "dimensionless"})
+
+
+def _has_scaled_comment_unit(module: ModuleSymbols) -> bool:
+    return any(unit.text not in _PLAIN_DIMENSIONLESS for unit in module.comment_units.values())
 
 
 class UnreadableFile(Exception):
@@ -188,54 +198,113 @@ class Project:
         return ".".join(part for part in [*package, ref.module] if part)
 
     # -- the fast path --------------------------------------------------------------------
+    # A module whose values can all be unknown cannot give a finding, so inference skips
+    # it. Its values can be known when it declares units itself, or when it imports a name
+    # that may carry units; that is followed name by name through re-exports, so a
+    # package's ``__init__`` that re-exports one unit-bearing helper does not pull every
+    # importer of the package into the analysis.
     def can_have_units(self, module: ModuleSymbols) -> bool:
-        """Whether any value in the module can be known (see ``_MARKERS``)."""
-        return self._taint(module, set())
+        return self._reaches_marked(("module", module))
 
-    def _taint(self, module: ModuleSymbols, visiting: set[str]) -> bool:
-        key = module.path
-        if key in self._tainted:
-            return self._tainted[key]
+    def _marked(self, module: ModuleSymbols) -> bool:
         if module.is_stub:
-            result = stub_has_units(module)
-            self._tainted[key] = result
-            return result
-        if _MARKERS.search(module.source):
-            self._tainted[key] = True
-            return True
-        visiting.add(key)
-        hit_cycle = False
-        result = False
-        for ref in module.imports.values():
-            base = self.resolve_import(module, ref)
-            names = [base] if ref.attr is None else [f"{base}.{ref.attr}", base]
-            for name in names:
-                target = self.find_module(name)
-                if target is None:
-                    continue
-                if target.path in visiting:
-                    hit_cycle = True
-                    continue
-                if self._taint(target, visiting):
-                    result = True
-                    break
-            if result:
-                break
-        visiting.discard(key)
-        if result or not hit_cycle:
-            self._tainted[key] = result
-        return result
+            return stub_has_units(module)
+        return _has_scaled_comment_unit(module) or _MARKERS.search(module.source) is not None
+
+    def _reaches_marked(self, start: tuple) -> bool:
+        """Search the import graph from ``start`` for a module that declares units.
+
+        When a search finds nothing, nothing it visited can reach one either, so all of
+        it is remembered as unit-free; the graph may have cycles and is never walked twice.
+        """
+        memo = self._tainted
+        start_key = _node_key(start)
+        if start_key in memo:
+            return memo[start_key]
+        seen = {start_key}
+        stack = [start]
+        while stack:
+            node = stack.pop()
+            key = _node_key(node)
+            known = memo.get(key)
+            if known is False:
+                continue
+            if known or node is _UNIT_BEARING or (node[0] == "module" and self._marked(node[1])):
+                memo[start_key] = True
+                return True
+            for successor in self._successors(node):
+                successor_key = _node_key(successor)
+                if successor_key not in seen:
+                    seen.add(successor_key)
+                    stack.append(successor)
+        for key in seen:
+            memo[key] = False
+        return False
+
+    def _successors(self, node: tuple):
+        if node[0] == "module":
+            module = node[1]
+            if not module.is_stub:
+                for ref in module.imports.values():
+                    yield from self._import_targets(module, ref)
+            return
+        _, module, name = node
+        if module.is_stub:
+            spec = module.globals_declared.get(name)
+            if spec is not None and not _plain_dimensionless_spec(spec[0]):
+                yield _UNIT_BEARING
+            return
+        defined_here = name in module.functions or name in module.classes or name in module.globals_declared
+        if name in module.imports and not defined_here:
+            yield from self._import_targets(module, module.imports[name])
+        else:
+            yield ("module", module)
+
+    def _import_targets(self, module: ModuleSymbols, ref: ImportRef):
+        base = self.resolve_import(module, ref)
+        if ref.attr is None:
+            target = self.find_module(base)
+            if target is not None:
+                yield ("module", target)
+            elif self._unitful_stub_below(base):
+                yield _UNIT_BEARING
+            return
+        submodule = self.find_module(f"{base}.{ref.attr}")
+        if submodule is not None:
+            yield ("module", submodule)
+            return
+        target = self.find_module(base)
+        if target is not None:
+            yield ("name", target, ref.attr)
+
+    def _unitful_stub_below(self, package: str) -> bool:
+        """``import scipy`` then ``scipy.constants.g``: a unit-bearing stub under the name."""
+        prefix = package + "."
+        return any(name.startswith(prefix) and stub_has_units(self.stub_module(name))
+                   for name in self._stub_paths if self.stub_module(name) is not None)
+
+
+_UNIT_BEARING = ("unit-bearing",)
+
+
+def _node_key(node: tuple) -> tuple:
+    if node is _UNIT_BEARING:
+        return node
+    if node[0] == "module":
+        return ("module", node[1].path)
+    return ("name", node[1].path, node[2])
 
 
 _DIMENSIONLESS_SPELLINGS = {"1", "", "-", "dimensionless", "rad", "radian", "deg", "degree"}
 
 
+def _plain_dimensionless_spec(spec) -> bool:
+    text = getattr(spec, "text", None)
+    return text is not None and text.strip() in _DIMENSIONLESS_SPELLINGS
+
+
 def stub_has_units(module: ModuleSymbols) -> bool:
-    """A stub taints its importers when it can hand out a known dimension from nothing:
-    a constant with a dimensional unit. (Stub functions give unknown results for unknown
-    arguments.) Read from the text alone; a false yes only costs a fuller analysis."""
-    for spec, _ in module.globals_declared.values():
-        text = getattr(spec, "text", None)
-        if text is None or text.strip() not in _DIMENSIONLESS_SPELLINGS:
-            return True
-    return False
+    """A stub can hand out a known dimension from nothing only through a constant with a
+    dimensional unit (stub functions give unknown results for unknown arguments). Read
+    from the text alone; a false yes only costs a fuller analysis."""
+    return any(not _plain_dimensionless_spec(spec) for spec, _ in module.globals_declared.values())
