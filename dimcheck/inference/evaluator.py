@@ -24,7 +24,7 @@ from ..rules.checks import Problem
 from .generic import GenericUnit, raise_quantity
 from .values import (
     UNKNOWN, Bare, ClassValue, FunctionValue, InstanceValue, ModuleValue, Quantity,
-    TupleValue, Unknown, intersect_scales, quantity_product, scale_by_bare,
+    TupleValue, Unknown, intersect_scales, literal_tolerance, quantity_product, scale_by_bare,
 )
 
 if TYPE_CHECKING:
@@ -63,7 +63,8 @@ def merge_values(a: Any, b: Any) -> Any:
         if a.dimension != b.dimension:
             return UNKNOWN
         return a if a.scales == b.scales else Quantity(
-            a.dimension, intersect_scales(a.scales, b.scales), a.label, a.derived, a.origin, a.offset)
+            a.dimension, intersect_scales(a.scales, b.scales), a.label, a.derived, a.origin, a.offset,
+            max(a.tolerance, b.tolerance))
     if isinstance(a, Quantity) and isinstance(b, Bare) and b.is_zero:
         return a
     if isinstance(b, Quantity) and isinstance(a, Bare) and a.is_zero:
@@ -464,7 +465,7 @@ class ScopeEvaluator:
             if left.offset == offset and left.scales == right.scales:
                 return left
             return Quantity(left.dimension, intersect_scales(left.scales, right.scales), left.label,
-                            True, None, offset)
+                            True, None, offset, max(left.tolerance, right.tolerance))
         if isinstance(left, Quantity) and isinstance(right, Bare):
             return left
         if isinstance(right, Quantity) and isinstance(left, Bare):
@@ -477,14 +478,15 @@ class ScopeEvaluator:
             return quantity_product(left, right, divide)
         if isinstance(left, Quantity) and isinstance(right, Bare):
             return Quantity(left.dimension, scale_by_bare(left.scales, right.value, divide), left.label,
-                            left.derived, None, left.offset)
+                            left.derived, None, left.offset, left.tolerance + literal_tolerance(right.value))
         if isinstance(left, Bare) and isinstance(right, Quantity):
+            tolerance = right.tolerance + literal_tolerance(left.value)
             if not divide:
                 return Quantity(right.dimension, scale_by_bare(right.scales, left.value, False),
-                                right.label, right.derived, None, right.offset)
+                                right.label, right.derived, None, right.offset, tolerance)
             inverse = quantity_product(_ONE, right, divide=True)
             return Quantity(inverse.dimension, scale_by_bare(inverse.scales, left.value, False),
-                            inverse.label, True)
+                            inverse.label, True, None, False, tolerance)
         if isinstance(left, Bare) and isinstance(right, Bare):
             try:
                 if divide:
@@ -510,7 +512,8 @@ class ScopeEvaluator:
         if not isinstance(base, Quantity):
             return UNKNOWN
         if base.is_dimensionless and isinstance(exponent, (Quantity, Bare, Unknown)):
-            return Quantity(base.dimension, None if constant is None else base.scales, base.label, True)
+            return Quantity(base.dimension, None if constant is None else base.scales, base.label, True,
+                            tolerance=base.tolerance)
         if constant is None or not isinstance(constant, (int, float)):
             return UNKNOWN
         fraction = exact_exponent(constant)

@@ -142,4 +142,5 @@ def _raise(base, exponent: Fraction):
 
 def raise_quantity(value: Quantity, exponent: Fraction) -> Quantity:
     return Quantity(value.dimension ** exponent, power_scales(value.scales, float(exponent)),
-                    power_label(value.display_unit(), exponent), derived=True)
+                    power_label(value.display_unit(), exponent), derived=True,
+                    tolerance=value.tolerance * abs(float(exponent)))

@@ -76,16 +76,20 @@ class Quantity:
     ``None`` means the scale is open (a dimension-only declaration).
     """
 
-    __slots__ = ("dimension", "scales", "label", "derived", "origin", "offset")
+    __slots__ = ("dimension", "scales", "label", "derived", "origin", "offset", "tolerance")
 
     def __init__(self, dimension: Dimension, scales: tuple[float, ...] | None, label: str,
-                 derived: bool = False, origin: Origin | None = None, offset: bool = False):
+                 derived: bool = False, origin: Origin | None = None, offset: bool = False,
+                 tolerance: float = 0.0):
         self.dimension = dimension
         self.scales = scales
         self.label = label
         self.derived = derived
         self.origin = origin
         self.offset = offset
+        # relative uncertainty of the scale beyond SCALE_TOLERANCE: a conversion typed as
+        # a rounded published factor (6894.757 for psi) is only as exact as its digits
+        self.tolerance = tolerance
 
     def __repr__(self) -> str:
         return f"Quantity({self.describe()}, scales={self.scales})"
@@ -105,7 +109,7 @@ class Quantity:
         return f"{self.display_unit()} [{self.dimension.format()}]"
 
     def with_label(self, label: str) -> "Quantity":
-        return Quantity(self.dimension, self.scales, label, True, None, self.offset)
+        return Quantity(self.dimension, self.scales, label, True, None, self.offset, self.tolerance)
 
 
 @dataclass(slots=True)
@@ -140,15 +144,31 @@ class ModuleValue:
 
 # -- scale arithmetic ---------------------------------------------------------------
 
-def _close(a: float, b: float) -> bool:
-    return math.isclose(a, b, rel_tol=SCALE_TOLERANCE)
+def _close(a: float, b: float, tolerance: float = 0.0) -> bool:
+    return math.isclose(a, b, rel_tol=SCALE_TOLERANCE + tolerance)
 
 
-def scales_overlap(a: tuple[float, ...] | None, b: tuple[float, ...] | None) -> bool:
+def scales_overlap(a: tuple[float, ...] | None, b: tuple[float, ...] | None,
+                   tolerance: float = 0.0) -> bool:
     """True when the two candidate sets share a scale, or either is open."""
     if a is None or b is None:
         return True
-    return any(_close(x, y) for x in a for y in b)
+    return any(_close(x, y, tolerance) for x in a for y in b)
+
+
+def quantities_share_scale(a: "Quantity", b: "Quantity") -> bool:
+    return scales_overlap(a.scales, b.scales, a.tolerance + b.tolerance)
+
+
+def literal_tolerance(value: float) -> float:
+    """How exact a typed factor is: 0 for short literals (1000, 0.0254, 3.6e6), else half a
+    unit in its last significant digit, relative (6894.757 -> 5e-7)."""
+    if isinstance(value, int) or not math.isfinite(value) or value == 0:
+        return 0.0
+    digits = repr(abs(value)).lower().split("e")[0].replace(".", "").lstrip("0")
+    if len(digits) <= 4:
+        return 0.0
+    return min(5e-5, 0.5 * 10.0 ** (1 - len(digits)))
 
 
 def _dedupe(values) -> tuple[float, ...] | None:
@@ -209,7 +229,7 @@ def quantity_product(left: Quantity, right: Quantity, divide: bool) -> Quantity:
     dimension = left.dimension / right.dimension if divide else left.dimension * right.dimension
     scales = divide_scales(left.scales, right.scales) if divide else multiply_scales(left.scales, right.scales)
     label = compose_label(left.display_unit(), "/" if divide else "*", right.display_unit())
-    return Quantity(dimension, scales, label, derived=True)
+    return Quantity(dimension, scales, label, derived=True, tolerance=left.tolerance + right.tolerance)
 
 
 def same_quantity_kind(a: Any, b: Any) -> bool:

@@ -9,7 +9,7 @@ import math
 from dataclasses import dataclass
 
 from ..inference.labels import si_label
-from ..inference.values import Bare, Quantity, scales_overlap
+from ..inference.values import Bare, Quantity, quantities_share_scale
 
 _DEGREE = math.pi / 180.0
 
@@ -22,7 +22,7 @@ class Problem:
 
 def _factor_text(value_scale: float, target_scale: float) -> str:
     factor = value_scale / target_scale
-    return f"{factor:.6g}"
+    return f"{factor:.12g}"  # enough digits that applying it passes the 1e-9 scale check
 
 
 def _scale_hint(value: Quantity, target: Quantity) -> str:
@@ -43,6 +43,7 @@ def _missing_factor(value: Quantity, declared: Quantity) -> str:
 def _is_degree_to_radian(value: Quantity, target: Quantity) -> bool:
     return (value.is_dimensionless and target.is_dimensionless and value.scales is not None
             and target.scales is not None and len(value.scales) == 1
+            and target.display_unit() in ("rad", "radian", "radians")
             and math.isclose(value.scales[0], _DEGREE, rel_tol=1e-9)
             and any(math.isclose(s, 1.0) for s in target.scales))
 
@@ -64,7 +65,7 @@ def check_combination(verb: str, left, right) -> Problem | None:
         if left.dimension != right.dimension:
             template = _SUM_VERBS.get(verb, verb + " disagree: {left} and {right}")
             return Problem("DIM101", template.format(left=left.describe(), right=right.describe()))
-        if not scales_overlap(left.scales, right.scales):
+        if not quantities_share_scale(left, right):
             return Problem("DIM201", f"{verb}: {left.display_unit()} and {right.display_unit()} "
                                      f"have the same dimension [{left.dimension.format()}] but different "
                                      f"scales; {_scale_hint(right, left)} to bring the "
@@ -90,7 +91,7 @@ def check_binding(what: str, declared: Quantity, value) -> Problem | None:
     if value.dimension != declared.dimension:
         return Problem("DIM103", f"{what} is declared {declared.describe()} but the value is "
                                  f"{value.describe()}{_missing_factor(value, declared)}")
-    if not scales_overlap(value.scales, declared.scales):
+    if not quantities_share_scale(value, declared):
         return Problem("DIM201", f"{what} is declared {declared.display_unit()} but the value is in "
                                  f"{value.display_unit()} (same dimension [{declared.dimension.format()}]); "
                                  f"{_scale_hint(value, declared)}")
@@ -108,7 +109,7 @@ def check_argument(param: str, function: str, declared: Quantity, value,
                                      f"got {value.describe()}")
         return Problem("DIM104", f"argument '{param}' of {function}() expects {declared.describe()} "
                                  f"but got {value.describe()}{_missing_factor(value, declared)}")
-    if scales_overlap(value.scales, declared.scales):
+    if quantities_share_scale(value, declared):
         return None
     if _is_degree_to_radian(value, declared):
         return Problem("DIM202", f"value in {value.display_unit()} reaches {function}(), which expects "

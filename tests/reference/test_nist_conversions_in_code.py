@@ -89,14 +89,10 @@ def test_wrong_direction_is_scale_mismatch(unit, si, factor):
     assert codes(snippet(unit, si, f"x / {factor}")) == [(FIRST_LINE + 1, "DIM201")]
 
 
-SEVEN_DIGIT_REASON = (
-    "contract section 2 compares scales at relative 1e-9, so NIST SP 811's seven-significant-digit "
-    "factors (good to ~5e-7) are reported as DIM201; a literal with n significant digits should "
-    "match a scale that agrees to n digits"
-)
+# A typed factor is as exact as its digits: a literal with five or more significant
+# digits matches a scale that agrees to half a unit in its last digit (docs/rules.md, DIM201).
 
 
-@pytest.mark.xfail(strict=True, reason=SEVEN_DIGIT_REASON)
 @pytest.mark.parametrize("unit, si, factor", SEVEN_DIGITS, ids=IDS[len(EXACT):])
 def test_seven_digit_nist_factor_multiplied_in_is_clean(unit, si, factor):
     assert codes(snippet(unit, si, f"x * {factor}")) == []
@@ -126,18 +122,9 @@ def test_message_factor_matches_nist(unit, si, factor):
     assert printed == pytest.approx(float(factor), rel=5.1e-6)
 
 
-ROUND_TRIP_REASON = (
-    "the DIM201 message prints the factor to 6 significant digits (e.g. 'multiply by 0.453592' "
-    "for lb), and applying that printed factor is itself DIM201 under the 1e-9 tolerance"
-)
-
-
 def _round_trip_cases():
-    # Cases whose exact factor has more than 6 significant digits fail today.
-    long = {"mile", "lb", "psi", "lbf", "Btu_it", "gallon", "hp", "ft^2"}
     for unit, si, factor in ALL:
-        marks = [pytest.mark.xfail(strict=True, reason=ROUND_TRIP_REASON)] if unit in long else []
-        yield pytest.param(unit, si, id=f"{unit}->{si}", marks=marks)
+        yield pytest.param(unit, si, id=f"{unit}->{si}")
 
 
 @pytest.mark.parametrize("unit, si", list(_round_trip_cases()))
