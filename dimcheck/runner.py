@@ -110,6 +110,7 @@ class Checker:
 def check_paths(paths: list[str], config: Config | None = None, select: list[str] | None = None,
                 ignore: list[str] | None = None) -> Report:
     config = config or Config()
-    files, errors = discover(paths, config.exclude)
+    base = str(config.base_dir) if config.source is not None else None
+    files, errors = discover(paths, config.exclude, base)
     checker = Checker(config, select, ignore)
     return Report(len(files), checker.check_files(files), errors)

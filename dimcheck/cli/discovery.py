@@ -15,18 +15,40 @@ SKIPPED_FOLDERS = frozenset({
 })
 
 
-def _excluded(path: str, patterns: list[str]) -> bool:
+def _forms(path: str, base: str | None) -> list[str]:
+    """The path as given and relative to the configuration's folder, with ``/`` separators."""
+    forms = [path]
+    if base is not None:
+        try:
+            forms.append(os.path.relpath(os.path.abspath(path), base))
+        except ValueError:
+            pass
+    result = []
+    for form in forms:
+        form = form.replace(os.sep, "/")
+        while form.startswith("./"):
+            form = form[2:]
+        result.append(form)
+    return result
+
+
+def _excluded(path: str, patterns: list[str], base: str | None = None) -> bool:
+    """Shell-style patterns match the file or folder name, or its path (as given, or
+    relative to the folder of the configuration file); a folder excludes what is below it."""
     if not patterns:
         return False
-    normalised = path.replace(os.sep, "/")
-    if normalised.startswith("./"):
-        normalised = normalised[2:]
-    name = os.path.basename(normalised.rstrip("/"))
-    return any(fnmatch.fnmatch(normalised, pattern) or fnmatch.fnmatch(name, pattern)
-               or fnmatch.fnmatch(normalised, pattern.rstrip("/") + "/*") for pattern in patterns)
+    forms = _forms(path, base)
+    name = os.path.basename(forms[0].rstrip("/"))
+    for pattern in patterns:
+        below = pattern.rstrip("/") + "/*"
+        if fnmatch.fnmatch(name, pattern):
+            return True
+        if any(fnmatch.fnmatch(form, pattern) or fnmatch.fnmatch(form, below) for form in forms):
+            return True
+    return False
 
 
-def discover(paths: list[str], exclude: list[str]) -> tuple[list[str], list[str]]:
+def discover(paths: list[str], exclude: list[str], base: str | None = None) -> tuple[list[str], list[str]]:
     """Files to check, in a stable order, and one-line errors for paths that do not exist."""
     files: list[str] = []
     errors: list[str] = []
@@ -44,13 +66,13 @@ def discover(paths: list[str], exclude: list[str]) -> tuple[list[str], list[str]
                 subfolders[:] = sorted(
                     name for name in subfolders
                     if name not in SKIPPED_FOLDERS and not name.endswith(".egg-info")
-                    and not _excluded(os.path.join(folder, name), exclude))
+                    and not _excluded(os.path.join(folder, name), exclude, base))
                 for name in sorted(names):
                     full = os.path.join(folder, name)
-                    if name.endswith(SOURCE_SUFFIXES) and not _excluded(full, exclude):
+                    if name.endswith(SOURCE_SUFFIXES) and not _excluded(full, exclude, base):
                         add(full)
         elif os.path.lexists(given):
-            if not _excluded(given, exclude):
+            if not _excluded(given, exclude, base):
                 add(given)  # a file named on the command line is checked whatever its suffix
         else:
             errors.append(f"path not found: {given}")
