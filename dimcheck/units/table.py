@@ -14,7 +14,6 @@ kilogram dropped, first candidate wins. Pint warns about ambiguous names such as
 from __future__ import annotations
 
 import hashlib
-import importlib.metadata
 import json
 import os
 from pathlib import Path
@@ -229,11 +228,24 @@ def default_cache_dir() -> Path:
 
 
 def _pint_version() -> str:
-    # Read from the installed metadata so that a warm start never imports pint.
-    try:
-        return importlib.metadata.version("pint")
-    except importlib.metadata.PackageNotFoundError:
+    """Which pint is installed, without importing it (nor importlib.metadata, which costs
+    more than the whole warm table load): the installed package's version file, falling
+    back to the location and modification time of its ``__init__``."""
+    import importlib.util
+
+    spec = importlib.util.find_spec("pint")
+    if spec is None or not spec.origin:
         return "missing"
+    package = os.path.dirname(spec.origin)
+    parent = os.path.dirname(package)
+    try:
+        for name in os.listdir(parent):
+            if name.startswith("pint-") and name.endswith(".dist-info"):
+                return name[len("pint-"):-len(".dist-info")]
+        stat = os.stat(spec.origin)
+    except OSError:
+        return "unknown"
+    return f"{spec.origin}:{stat.st_mtime_ns}:{stat.st_size}"
 
 
 def _table_key(contents: Sequence[bytes], extras: Sequence[str]) -> str:
