@@ -98,6 +98,7 @@ class Engine:
         self._constructors: dict[int, FunctionInfo] = {}
         self._bases: dict[int, list[ClassInfo]] = {}
         self._importing: set[tuple] = set()
+        self._inferred_attributes: dict[tuple, Any] = {}
 
     # == declarations ======================================================================
     def declared(self, module: ModuleSymbols, spec) -> Quantity | GenericUnit | None:
@@ -247,7 +248,7 @@ class Engine:
         if isinstance(owner, (InstanceValue, ClassValue)):
             found = self._class_member(owner.info, attr, 0)
             if found is None:
-                return UNKNOWN
+                return self._inferred_attribute(owner.info, attr) if isinstance(owner, InstanceValue) else UNKNOWN
             kind, payload, info = found
             if kind == "attribute":
                 value = self.declared(info.module, payload)
@@ -266,6 +267,23 @@ class Engine:
             ndarray = self._ndarray_class()
             if ndarray is not None and attr in ndarray.methods:
                 return FunctionValue(ndarray.methods[attr], owner)
+        return UNKNOWN
+
+    def record_attribute(self, info: ClassInfo, attr: str, value: Any) -> None:
+        """``self.x = value`` in a method, with no declaration: remember what x holds."""
+        key = (id(info), attr)
+        value = UNKNOWN if isinstance(value, Bare) else value
+        self._inferred_attributes[key] = (merge_values(self._inferred_attributes[key], value)
+                                          if key in self._inferred_attributes else value)
+
+    def _inferred_attribute(self, info: ClassInfo, attr: str) -> Any:
+        for cls in [info, *self._base_classes(info)]:
+            init = cls.methods.get("__init__")
+            if init is not None:
+                self.baseline(init)  # its assignments to self are what instances start with
+            value = self._inferred_attributes.get((id(cls), attr))
+            if value is not None:
+                return value
         return UNKNOWN
 
     def attribute_declaration(self, owner: Any, attr: str) -> Quantity | None:

@@ -261,6 +261,8 @@ class ScopeEvaluator:
             declared = self.engine.attribute_declaration(owner, target.attr)
             if declared is not None:
                 self.report(value_node, checks.check_binding(f"attribute '{target.attr}'", declared, value))
+            elif self.baseline and isinstance(owner, InstanceValue):
+                self.engine.record_attribute(owner.info, target.attr, value)
         elif isinstance(target, ast.Subscript):
             container = self.expr(target.value)
             self.expr(target.slice)
