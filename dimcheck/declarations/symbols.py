@@ -92,6 +92,8 @@ class ModuleSymbols:
     # every function and method, for the baseline pass; nested ones are found on the way
     all_functions: list[FunctionInfo] = field(default_factory=list)
     comment_specs: dict[int, UnitText] = field(default_factory=dict)
+    # in stubs only: ``milli = 1e-3`` names a plain scale factor that acts like a literal
+    stub_numbers: dict[str, float] = field(default_factory=dict)
 
     _lines: list[str] | None = None
 
@@ -298,6 +300,9 @@ def collect_symbols(module: ModuleSymbols) -> ModuleSymbols:
                 spec = comment_spec(module, stmt.lineno, stmt.end_lineno or stmt.lineno)
             if spec is not None:
                 module.globals_declared[name] = (spec, stmt)
+        elif (module.is_stub and isinstance(stmt, ast.Assign) and len(stmt.targets) == 1
+              and isinstance(stmt.targets[0], ast.Name) and _number_literal(stmt.value) is not None):
+            module.stub_numbers[stmt.targets[0].id] = _number_literal(stmt.value)
         elif isinstance(stmt, ast.Assign):
             spec = read_annotation(stmt.value) if isinstance(stmt.value, ast.Subscript) else None
             if isinstance(spec, UnitText):
@@ -311,6 +316,16 @@ def collect_symbols(module: ModuleSymbols) -> ModuleSymbols:
                     if isinstance(target, ast.Name):
                         module.globals_declared[target.id] = (spec, stmt)
     return module
+
+
+def _number_literal(node: ast.AST) -> float | None:
+    if isinstance(node, ast.UnaryOp) and isinstance(node.op, ast.USub):
+        inner = _number_literal(node.operand)
+        return None if inner is None else -inner
+    if isinstance(node, ast.Constant) and isinstance(node.value, (int, float)) \
+            and not isinstance(node.value, bool):
+        return node.value
+    return None
 
 
 def _is_type_alias_annotation(annotation: ast.AST) -> bool:

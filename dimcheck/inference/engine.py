@@ -194,6 +194,8 @@ class Engine:
         declared = self.global_declaration(module, name)
         if declared is not None:
             return declared
+        if name in module.stub_numbers:
+            return Bare(module.stub_numbers[name])
         if name in module.functions:
             return FunctionValue(module.functions[name])
         if name in module.classes:
@@ -208,7 +210,8 @@ class Engine:
 
     def _defines(self, module: ModuleSymbols, name: str) -> bool:
         return (name in module.globals_declared or name in module.functions or name in module.classes
-                or name in module.imports or name in self._module_envs.get(module.path, ()))
+                or name in module.imports or name in module.stub_numbers
+                or name in self._module_envs.get(module.path, ()))
 
     def import_value(self, module: ModuleSymbols, ref: ImportRef) -> Any:
         key = (module.path, ref)
