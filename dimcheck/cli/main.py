@@ -14,6 +14,7 @@ import sys
 from .. import __version__
 from ..rules.registry import RULES
 from .config import ConfigError, load_config, parse_codes
+from . import groups_command
 
 EXIT_CLEAN, EXIT_FINDINGS, EXIT_TROUBLE = 0, 1, 2
 
@@ -51,6 +52,7 @@ def build_parser() -> argparse.ArgumentParser:
                        help="lowest severity that makes the exit code 1 (default: error)")
 
     commands.add_parser("rules", help="list the rule codes")
+    groups_command.register(commands)
     return parser
 
 
@@ -89,6 +91,8 @@ def main(argv: list[str] | None = None) -> int:
             return _run_check(args)
         if args.command == "rules":
             return _run_rules()
+        if args.command == "groups":
+            return groups_command.run(args)
         parser.print_help()
         return EXIT_TROUBLE
     except (UsageError, ConfigError) as error:
