@@ -50,6 +50,11 @@ def build_parser() -> argparse.ArgumentParser:
     check.add_argument("--no-cache", action="store_true", help="neither read nor write the result cache")
     check.add_argument("--fail-on", choices=("error", "warning"), default=None,
                        help="lowest severity that makes the exit code 1 (default: error)")
+    recorded = check.add_mutually_exclusive_group()
+    recorded.add_argument("--baseline", metavar="FILE",
+                          help="report only findings not recorded in FILE (see --write-baseline)")
+    recorded.add_argument("--write-baseline", metavar="FILE",
+                          help="record the current findings in FILE and exit 0")
 
     commands.add_parser("rules", help="list the rule codes")
     groups_command.register(commands)
@@ -65,10 +70,36 @@ def _run_check(args) -> int:
     ignore = parse_codes(args.ignore, "--ignore") if args.ignore is not None else None
     if args.jobs < 0:
         raise UsageError("--jobs must be 0 (all cores) or a positive number")
+    known = None
+    if args.baseline is not None or args.write_baseline is not None:
+        from .. import baseline
+    if args.baseline is not None:
+        try:  # read before the run, so a wrong file name fails at once
+            known = baseline.read(args.baseline)
+        except baseline.BaselineError as error:
+            raise UsageError(str(error)) from None
     paths = args.paths or config.paths or ["."]
     report = check_paths(paths, config, select, ignore)
     for error in report.errors:
         print(f"dimcheck: error: {error}", file=sys.stderr)
+    if args.write_baseline is not None:
+        if report.errors:  # a record of a partial run would hide nothing it should
+            return EXIT_TROUBLE
+        try:
+            count = baseline.write(report.findings, args.write_baseline)
+        except OSError as error:
+            raise UsageError(f"cannot write baseline file {args.write_baseline}: "
+                             f"{error.strerror or error}") from None
+        print(f"dimcheck: recorded {count} finding{'s' * (count != 1)} in {args.write_baseline}",
+              file=sys.stderr)
+        return EXIT_CLEAN
+    if known is not None:
+        shown = len(report.findings)
+        report = baseline.filter_report(report, known, args.baseline)
+        hidden = shown - len(report.findings)
+        if hidden and args.format == "text":
+            print(f"dimcheck: {hidden} finding{'s' * (hidden != 1)} recorded in {args.baseline} "
+                  f"not shown", file=sys.stderr)
     sys.stdout.write(FORMATS[args.format](report))
     if report.errors:
         return EXIT_TROUBLE

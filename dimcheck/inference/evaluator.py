@@ -438,9 +438,12 @@ class ScopeEvaluator:
     def binary(self, node: ast.AST, op: ast.operator, left: Any, right: Any, augmented: bool = False) -> Any:
         if isinstance(op, (ast.Add, ast.Sub)):
             verb = "add" if isinstance(op, ast.Add) else "subtract"
-            self.report(node, checks.check_combination(verb, left, right))
+            self.report(node, checks.check_combination(verb, left, right)
+                        or checks.check_offset_combination(verb, left, right))
             return self._sum_result(left, right, isinstance(op, ast.Sub))
         if isinstance(op, (ast.Mult, ast.Div, ast.FloorDiv, ast.MatMult)):
+            if isinstance(left, Quantity) and isinstance(right, Quantity):
+                self.report(node, checks.check_offset_product(left) or checks.check_offset_product(right))
             return self._product(left, right, divide=isinstance(op, (ast.Div, ast.FloorDiv)))
         if isinstance(op, ast.Pow):
             return self._power(node, left, right)
@@ -463,15 +466,17 @@ class ScopeEvaluator:
         if isinstance(left, Quantity) and isinstance(right, Quantity):
             if left.dimension != right.dimension:
                 return UNKNOWN
-            offset = left.offset and not (subtract and right.offset)
+            offset = left.offset and right.offset and not subtract
             if left.offset == offset and left.scales == right.scales:
                 return left
             return Quantity(left.dimension, intersect_scales(left.scales, right.scales), left.label,
                             True, None, offset, max(left.tolerance, right.tolerance))
-        if isinstance(left, Quantity) and isinstance(right, Bare):
-            return left
-        if isinstance(right, Quantity) and isinstance(left, Bare):
-            return right
+        quantity, bare = (left, right) if isinstance(left, Quantity) else (right, left)
+        if isinstance(quantity, Quantity) and isinstance(bare, Bare):
+            if quantity.offset and not bare.is_zero:
+                # t_c + 273.15: most likely a conversion to kelvin; the zero is no longer known
+                return Quantity(quantity.dimension, quantity.scales, quantity.label, True)
+            return quantity
         return UNKNOWN
 
     @staticmethod
@@ -504,7 +509,9 @@ class ScopeEvaluator:
             constant = exponent.value
         elif isinstance(exponent, Unknown) and exponent.const is not None:
             constant = exponent.const
-        self.report(node, checks.check_exponent(base, exponent, constant is not None))
+        self.report(node, checks.check_exponent(base, exponent, constant is not None)
+                    or checks.check_power_law(base, exponent)
+                    or (checks.check_offset_product(base) if constant != 1 else None))
         if isinstance(base, Bare) and isinstance(exponent, Bare):
             try:
                 result = base.value ** exponent.value

@@ -9,6 +9,7 @@ import math
 from dataclasses import dataclass
 
 from ..inference.labels import si_label
+from .kinds import article, kind_of
 from ..inference.values import Bare, Quantity, quantities_share_scale
 
 _DEGREE = math.pi / 180.0
@@ -34,10 +35,19 @@ def _scale_hint(value: Quantity, target: Quantity) -> str:
 
 
 def _missing_factor(value: Quantity, declared: Quantity) -> str:
+    """``; missing a factor of m/s^2 [L T^-2] (an acceleration?)``: what would make them agree."""
     missing = declared.dimension / value.dimension
     if missing.is_dimensionless:
         return ""
-    return f"; missing a factor of {si_label(missing)} [{missing.format()}]"
+    kind = kind_of(missing)
+    guess = f" ({article(kind)}?)" if kind else ""
+    return f"; missing a factor of {si_label(missing)} [{missing.format()}]{guess}"
+
+
+def described(quantity: Quantity) -> str:
+    """``m/s [L T^-1] (velocity)``: unit, dimension and, where it has one, the kind's name."""
+    kind = kind_of(quantity.dimension)
+    return f"{quantity.describe()} ({kind})" if kind else quantity.describe()
 
 
 def _is_degree_to_radian(value: Quantity, target: Quantity) -> bool:
@@ -64,7 +74,7 @@ def check_combination(verb: str, left, right) -> Problem | None:
     if isinstance(left, Quantity) and isinstance(right, Quantity):
         if left.dimension != right.dimension:
             template = _SUM_VERBS.get(verb, verb + " disagree: {left} and {right}")
-            return Problem("DIM101", template.format(left=left.describe(), right=right.describe()))
+            return Problem("DIM101", template.format(left=described(left), right=described(right)))
         if not quantities_share_scale(left, right):
             return Problem("DIM201", f"{verb}: {left.display_unit()} and {right.display_unit()} "
                                      f"have the same dimension [{left.dimension.format()}] but different "
@@ -76,7 +86,7 @@ def check_combination(verb: str, left, right) -> Problem | None:
         if not bare.is_zero and not quantity.is_dimensionless:
             action = "compared with" if verb == "compare" else "combined with"
             return Problem("DIM203", f"bare number {_number(bare.value)} {action} "
-                                     f"{quantity.describe()}; give the number a unit")
+                                     f"{described(quantity)}; give the number a unit")
     return None
 
 
@@ -89,8 +99,11 @@ def check_binding(what: str, declared: Quantity, value) -> Problem | None:
     if not isinstance(value, Quantity):
         return None
     if value.dimension != declared.dimension:
-        return Problem("DIM103", f"{what} is declared {declared.describe()} but the value is "
-                                 f"{value.describe()}{_missing_factor(value, declared)}")
+        return Problem("DIM103", f"{what} is declared {described(declared)} but the value is "
+                                 f"{described(value)}{_missing_factor(value, declared)}")
+    offset = check_offset_binding(what, declared, value)
+    if offset is not None:
+        return offset
     if not quantities_share_scale(value, declared):
         return Problem("DIM201", f"{what} is declared {declared.display_unit()} but the value is in "
                                  f"{value.display_unit()} (same dimension [{declared.dimension.format()}]); "
@@ -106,9 +119,12 @@ def check_argument(param: str, function: str, declared: Quantity, value,
     if value.dimension != declared.dimension:
         if transcendental and declared.is_dimensionless:
             return Problem("DIM102", f"argument of {function}() must be dimensionless, "
-                                     f"got {value.describe()}")
-        return Problem("DIM104", f"argument '{param}' of {function}() expects {declared.describe()} "
-                                 f"but got {value.describe()}{_missing_factor(value, declared)}")
+                                     f"got {described(value)}; form a dimensionless ratio first")
+        return Problem("DIM104", f"argument '{param}' of {function}() expects {described(declared)} "
+                                 f"but got {described(value)}{_missing_factor(value, declared)}")
+    offset = check_offset_binding(f"argument '{param}' of {function}()", declared, value)
+    if offset is not None:
+        return offset
     if quantities_share_scale(value, declared):
         return None
     if _is_degree_to_radian(value, declared):
@@ -119,6 +135,57 @@ def check_argument(param: str, function: str, declared: Quantity, value,
     return Problem("DIM201", f"argument '{param}' of {function}() expects {declared.display_unit()} "
                              f"but got {value.display_unit()} (same dimension "
                              f"[{declared.dimension.format()}]); {_scale_hint(value, declared)}")
+
+
+def check_offset_combination(verb: str, left, right) -> Problem | None:
+    """Two absolute temperatures on an offset scale added (DIM204); pint refuses it too."""
+    if (verb == "add" and isinstance(left, Quantity) and isinstance(right, Quantity)
+            and left.offset and right.offset):
+        return Problem("DIM204", f"adding two absolute temperatures ({left.display_unit()} and "
+                                 f"{right.display_unit()}) has no meaning; subtract them for a "
+                                 f"difference, or convert to K")
+    return None
+
+
+def check_offset_product(operand) -> Problem | None:
+    """An absolute temperature on an offset scale (degC, degF) in a product, quotient or
+    power (DIM204): its zero is not zero, so the result depends on the scale."""
+    if isinstance(operand, Quantity) and operand.offset:
+        return Problem("DIM204", f"absolute temperature in {operand.display_unit()} used in a "
+                                 f"product, quotient or power; convert it to K first "
+                                 f"(add 273.15 for degC)")
+    return None
+
+
+def check_offset_binding(what: str, declared: Quantity, value) -> Problem | None:
+    """An absolute offset temperature bound to a kelvin-based declaration, or the reverse."""
+    if isinstance(value, Quantity) and value.dimension == declared.dimension \
+            and value.offset != declared.offset and value.origin is not None:
+        source, target = value.display_unit(), declared.display_unit()
+        return Problem("DIM204", f"{what} is declared {target} but the value is an absolute "
+                                 f"temperature in {source}; the zero points differ, convert explicitly")
+    return None
+
+
+def check_power_law(base, exponent) -> Problem | None:
+    """``0.023 * d**0.8``: a dimensional base raised to an empirical non-integer power
+    leaves a fractional dimension that the coefficient must silently cancel (DIM205)."""
+    if not (isinstance(base, Quantity) and isinstance(exponent, Bare)) or base.is_dimensionless:
+        return None
+    value = exponent.value
+    if isinstance(value, int) or float(value).is_integer() or abs(abs(value) - 0.5) < 1e-12:
+        return None
+    powers = (base.dimension ** _fraction(value)).exponents
+    if all(power.denominator == 1 for _, power in powers):
+        return None  # vol ** (1/3) is a plain length
+    return Problem("DIM205", f"{base.describe()} raised to the empirical power {_number(value)}: "
+                             f"the coefficient of such a law carries hidden units; raise a "
+                             f"dimensionless group (such as a Reynolds number) instead")
+
+
+def _fraction(value: float):
+    from fractions import Fraction
+    return Fraction(value).limit_denominator(1000)
 
 
 def check_exponent(base, exponent, exponent_is_constant: bool) -> Problem | None:

@@ -38,6 +38,12 @@ _RULES = (
          "a value declared in degrees reaches a function that expects radians"),
     Rule("DIM203", "bare-number-in-sum", WARNING,
          "a non-zero bare number is added to or compared with a dimensional value"),
+    Rule("DIM204", "offset-temperature", WARNING,
+         "an absolute temperature on an offset scale (degC, degF) is added to another, used in a "
+         "product, quotient or power, or bound to a kelvin declaration without conversion"),
+    Rule("DIM205", "power-law-coefficient", WARNING,
+         "a dimensional value is raised to an empirical non-integer power, so the law's "
+         "coefficient carries hidden units"),
     Rule("DIM901", "bad-unit", ERROR,
          "a declared unit expression cannot be parsed or is unknown"),
     Rule("DIM902", "unreadable-file", ERROR,

@@ -61,7 +61,7 @@ from typing import Annotated
 def f(v: Annotated[float, "m/s"], a: Annotated[float, "m/s^2"]):
     return v + a
 """)[0].message
-    assert message == "cannot add m/s^2 [L T^-2] to m/s [L T^-1]"
+    assert message == "cannot add m/s^2 [L T^-2] (acceleration) to m/s [L T^-1] (velocity)"
 
 
 def test_zero_matches_any_dimension():
@@ -303,3 +303,48 @@ def test_select_and_ignore(select, ignore, expected):
     """
     assert check(body, select=parse_codes(select, "x") if select else None,
                  ignore=parse_codes(ignore, "x") if ignore else None) == expected
+
+
+# -- DIM204 offset-temperature (dimcheck's own code; docs/rules.md) ---------------------------
+
+def test_offset_temperatures_follow_pint_semantics():
+    # pint as the reference library: adding two degC quantities or multiplying one raises
+    # OffsetUnitCalculusError; the difference of two is a temperature difference.
+    assert check("""\
+        R = 8.314  # [J/(mol*K)]
+        def f(p: Annotated[float, "Pa"], v: Annotated[float, "m^3"], t_c: Annotated[float, "degC"],
+              t2: Annotated[float, "degC"], t_k: Annotated[float, "K"]):
+            n = p * v / (R * t_c)
+            s = t_c + t2
+            rise: Annotated[float, "K"] = t2 - t_c
+            k: Annotated[float, "K"] = t_c
+            radiated = t_c ** 4
+            fine = t_k ** 4 / t_k ** 3 + t_k * 2
+    """) == [(7, "DIM204"), (8, "DIM204"), (10, "DIM204"), (11, "DIM204")]
+
+
+# -- DIM205 power-law-coefficient (dimcheck's own code) --------------------------------------
+
+def test_empirical_power_of_a_dimensional_value():
+    assert check("""\
+        def f(d: Annotated[float, "m"], vol: Annotated[float, "m^3"], re: Annotated[float, "1"]):
+            h = 0.023 * d ** 0.8
+            nu = 0.023 * re ** 0.8
+            side = vol ** (1 / 3)
+            root = d ** 0.5
+            square = d ** 2
+    """) == [(5, "DIM205")]
+
+
+# -- fix hints -------------------------------------------------------------------------------
+
+def test_hints_name_quantity_kinds_and_missing_factor():
+    from .helpers import findings
+    [finding] = findings("""\
+from typing import Annotated
+def weight(m: Annotated[float, "kg"]) -> Annotated[float, "N"]:
+    return m
+""")
+    assert finding.message == ("return value of weight() is declared N [M L T^-2] (force) but the "
+                               "value is kg [M] (mass); missing a factor of m/s^2 [L T^-2] "
+                               "(an acceleration?)")

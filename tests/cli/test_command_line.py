@@ -39,7 +39,7 @@ def test_text_format_is_path_line_column_code_message(project):
     result = run("check", "pkg", cwd=project)
     assert result.returncode == 1
     assert result.stdout.splitlines() == [
-        f"pkg{os.sep}buggy.py:3:12: DIM101 cannot add s [T] to m [L]"]
+        f"pkg{os.sep}buggy.py:3:12: DIM101 cannot add s [T] (time) to m [L] (length)"]
     assert "Traceback" not in result.stderr
 
 
