@@ -42,7 +42,7 @@ def display_path(path: str) -> str:
     return path if relative.startswith("..") and os.path.isabs(path) else relative
 
 
-def _message(located: Located) -> str:
+def finding_message(located: Located) -> str:
     if not located.chain:
         return located.problem.message
     return f"{located.problem.message} (inside {', via '.join(located.chain)})"
@@ -51,7 +51,7 @@ def _message(located: Located) -> str:
 def _finding(located: Located, shown_path: str) -> Finding:
     end_line = max(located.end_line, located.line)
     return Finding(shown_path, located.line, located.column + 1, end_line, located.end_column + 1,
-                   located.problem.code, _message(located))
+                   located.problem.code, finding_message(located))
 
 
 class Checker:

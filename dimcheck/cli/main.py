@@ -14,7 +14,7 @@ import sys
 from .. import __version__
 from ..rules.registry import RULES
 from .config import ConfigError, load_config, parse_codes
-from . import groups_command
+from . import analysis_commands, groups_command
 
 EXIT_CLEAN, EXIT_FINDINGS, EXIT_TROUBLE = 0, 1, 2
 
@@ -58,6 +58,7 @@ def build_parser() -> argparse.ArgumentParser:
 
     commands.add_parser("rules", help="list the rule codes")
     groups_command.register(commands)
+    analysis_commands.register(commands)
     return parser
 
 
@@ -124,9 +125,13 @@ def main(argv: list[str] | None = None) -> int:
             return _run_rules()
         if args.command == "groups":
             return groups_command.run(args)
+        if args.command == "explain":
+            return analysis_commands.run_explain(args)
+        if args.command == "coverage":
+            return analysis_commands.run_coverage(args)
         parser.print_help()
         return EXIT_TROUBLE
-    except (UsageError, ConfigError) as error:
+    except (UsageError, ConfigError, analysis_commands.CommandError) as error:
         print(f"dimcheck: error: {error}", file=sys.stderr)
         return EXIT_TROUBLE
     except KeyboardInterrupt:

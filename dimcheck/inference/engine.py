@@ -85,6 +85,9 @@ class Engine:
         self.project = project
         self.table = table
         self.depth = 0  # expression nesting across all evaluators, for the recursion budget
+        # called as observer(module, node, value) for every expression evaluated once with
+        # declared inputs (not the per-call-site re-analyses); used by explain and coverage
+        self.observer = None
         self._call_depth = 0
         self._declared: dict[tuple, Any] = {}
         self._declaration_problems: dict[str, dict[tuple, Located]] = defaultdict(dict)

@@ -397,10 +397,14 @@ class ScopeEvaluator:
             handler = getattr(self, "_expr_" + type(node).__name__, None)
             if handler is None:
                 self._visit_children(node)
-                return UNKNOWN
-            return handler(node)
+                value = UNKNOWN
+            else:
+                value = handler(node)
         finally:
             engine.depth -= 1
+        if engine.observer is not None and self.baseline:
+            engine.observer(self.module, node, value)
+        return value
 
     def _expr_Constant(self, node: ast.Constant) -> Any:
         value = node.value
@@ -430,9 +434,12 @@ class ScopeEvaluator:
             spine.append(current)
             current = current.left
         value = self.expr(current)
+        observer = self.engine.observer if self.baseline else None
         for binop in reversed(spine):
             right = self.expr(binop.right)
             value = self.binary(binop, binop.op, value, right)
+            if observer is not None and binop is not node:
+                observer(self.module, binop, value)  # the chain's inner links skip expr()
         return value
 
     def binary(self, node: ast.AST, op: ast.operator, left: Any, right: Any, augmented: bool = False) -> Any:

@@ -1,0 +1,72 @@
+"""``dimcheck explain`` and ``dimcheck coverage``: commands that help users read and grow
+their declarations. Each registers its subparser and runs from parsed arguments."""
+
+from __future__ import annotations
+
+import json
+import sys
+
+from .config import load_config
+
+EXIT_OK, EXIT_BELOW, EXIT_TROUBLE = 0, 1, 2
+
+
+class CommandError(Exception):
+    """A one-line problem with a command's input."""
+
+
+def register(commands) -> None:
+    explain = commands.add_parser(
+        "explain", help="show how the dimension of each part of a line was found",
+        description="Print, as a tree, the unit and dimension of every expression on a line and "
+                    "the declarations they came from.")
+    explain.add_argument("location", metavar="FILE:LINE[:COL]")
+    explain.add_argument("--config", metavar="FILE")
+
+    coverage = commands.add_parser(
+        "coverage", help="report how much of the code has known units",
+        description="Per file and in total: the share of numeric expressions whose dimension is "
+                    "known, and of functions whose signature is fully declared.")
+    coverage.add_argument("paths", nargs="*", metavar="PATH")
+    coverage.add_argument("--format", choices=("text", "json"), default="text")
+    coverage.add_argument("--fail-under", type=float, default=None, metavar="PERCENT",
+                          help="exit 1 when the total share of known expressions is below PERCENT")
+    coverage.add_argument("--config", metavar="FILE")
+
+
+def run_explain(args) -> int:
+    from ..analysis.explain import ExplainError, explain, parse_target
+
+    try:
+        lines = explain(parse_target(args.location), load_config(args.config))
+    except ExplainError as error:
+        raise CommandError(str(error)) from None
+    print("\n".join(lines))
+    return EXIT_OK
+
+
+def run_coverage(args) -> int:
+    from ..analysis.coverage import measure
+
+    if args.fail_under is not None and not 0 <= args.fail_under <= 100:
+        raise CommandError("--fail-under takes a percentage from 0 to 100")
+    config = load_config(args.config)
+    report = measure(args.paths or config.paths or ["."], config)
+    total = report.total()
+    if args.format == "json":
+        rows = [{"path": item.path, "expressions": item.expressions, "known": item.known,
+                 "expression_share": round(item.expression_share, 1), "functions": item.functions,
+                 "declared_functions": item.declared_functions,
+                 "function_share": round(item.function_share, 1)} for item in report.files + [total]]
+        print(json.dumps({"files": rows[:-1], "total": rows[-1], "unreadable": report.unreadable}, indent=2))
+    else:
+        width = max([len(item.path) for item in report.files] + [5])
+        print(f"{'file':<{width}}  {'known expressions':>22}  {'declared functions':>22}")
+        for item in report.files + [total]:
+            print(f"{item.path:<{width}}  {item.known:>6}/{item.expressions:<6} {item.expression_share:6.1f}%"
+                  f"  {item.declared_functions:>6}/{item.functions:<6} {item.function_share:6.1f}%")
+        for path in report.unreadable:
+            print(f"{path}: unreadable (see dimcheck check)", file=sys.stderr)
+    if args.fail_under is not None and total.expression_share < args.fail_under:
+        return EXIT_BELOW
+    return EXIT_OK
