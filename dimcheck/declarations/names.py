@@ -162,8 +162,8 @@ def shipped_unit(name: str) -> tuple[str, str] | None:
     if match is None:
         return None
     suffix, stem = match
-    if stem.endswith("_per"):
-        numerator = _suffix_of(stem[: -len("_per")])
+    if stem == "per" or stem.endswith("_per"):
+        numerator = _suffix_of(stem[: -len("per")].rstrip("_"))
         if numerator is None:
             return None  # "loss_per_m": a rate of something unknown per metre
         top, _ = numerator

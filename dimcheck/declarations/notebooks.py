@@ -30,8 +30,9 @@ magic commands", "IPython reference: system shell access, dynamic object informa
 "Start of a statement" is tracked with a small scanner (brackets, strings, backslash
 continuations), so a continuation line such as ``    % modulus)`` or a line inside a
 triple-quoted string is never taken for a magic. A blanked line that was indented becomes
-``pass`` at the same indentation so that a block whose only statement was a magic
-(``for f in files:`` / ``    !gzip {f}``) still parses.
+``pass`` at the same indentation when it is the first line of a block (the line before it
+ends with ``:``), so that ``for f in files:`` / ``    !gzip {f}`` still parses; elsewhere a
+blank line is always safe.
 
 A cell with a syntax error is kept as it is. If the joined text does not parse, the
 caller reports DIM902 for the notebook; ``cell_syntax_errors`` parses each cell on its own
@@ -46,6 +47,7 @@ import ast
 import bisect
 import json
 import re
+import warnings
 from dataclasses import dataclass, field
 
 # Guards. Outputs (images above all) make real notebooks large, so the byte limit is
@@ -67,6 +69,11 @@ _ESCAPE_STARTS = ("%", "!", "?", "/", ",", ";")
 _ASSIGNED_ESCAPE = re.compile(r"[A-Za-z_][\w.]*(\s*,\s*[A-Za-z_][\w.]*)*\s*=\s*[!%]")
 # "obj?", "obj.attr??", "%magic?", "np.*load*?"
 _HELP_END = re.compile(r"%{0,2}[A-Za-z_*][\w*]*(\.[\w*]+)*\?\??\s*")
+# A quick test over a whole cell: can any line be one of the escapes above?
+_MAYBE_ESCAPE = re.compile(r"^[ \t]*[%!?/,;]|\?[ \t]*$|=[ \t]*[!%]", re.MULTILINE)
+# Characters the statement scanner must look at, outside strings and inside each kind of string.
+_SPECIAL = re.compile(r"[\"'#()\[\]{}\\]")
+_QUOTE_STOPS = {quote: re.compile(r"\\|" + re.escape(quote)) for quote in ('"', "'", '"""', "'''")}
 
 
 class NotebookError(Exception):
@@ -130,7 +137,9 @@ class NotebookSource:
                 continue
             source = "".join(line + "\n" for line in lines[first - 1 : first - 1 + count])
             try:
-                ast.parse(source)
+                with warnings.catch_warnings():
+                    warnings.simplefilter("ignore")  # SyntaxWarning: not our report
+                    ast.parse(source)
             except SyntaxError as error:
                 line = min(max(error.lineno or 1, 1), count)
                 problems.append((index, line, error.msg or "invalid syntax"))
@@ -267,12 +276,15 @@ def blank_ipython_syntax(lines: list[str]) -> list[str]:
             return ["" for _ in lines]
         magic_at = lines.index(first)
         lines = [*lines[:magic_at], "", *lines[magic_at + 1 :]]
+    if not _MAYBE_ESCAPE.search("\n".join(lines)):
+        return list(lines)  # the common case: no line can be an escape, nothing to scan
     result = []
     state = _ScanState()
     for line in lines:
         if state.at_statement_start() and _is_escape(line):
             indent = line[: len(line) - len(line.lstrip())]
-            result.append(indent + "pass" if indent else "")
+            result.append(indent + "pass" if indent and state.opens_block else "")
+            state.opens_block = False
             continue
         result.append(line)
         state.scan(line)
@@ -297,6 +309,7 @@ class _ScanState:
         self.depth = 0  # open brackets
         self.quote: str | None = None  # an open triple-quoted (or backslash-continued) string
         self.continued = False  # the previous line ended with a backslash
+        self.opens_block = False  # the last statement line ended with ":" (a block follows)
 
     def at_statement_start(self) -> bool:
         return self.depth == 0 and self.quote is None and not self.continued
@@ -304,34 +317,46 @@ class _ScanState:
     def scan(self, line: str) -> None:
         self.continued = False
         quote = self.quote
+        last = ""  # the last character outside comments (a string counts as its quote)
         index, end = 0, len(line)
         while index < end:
-            char = line[index]
             if quote is not None:
-                if char == "\\":
-                    if index == end - 1:
+                found = _QUOTE_STOPS[quote].search(line, index)
+                if found is None:
+                    break
+                if found.group() == "\\":
+                    if found.start() == end - 1:
                         self.continued = len(quote) == 1
-                    index += 2
+                    index = found.start() + 2
                     continue
-                if line.startswith(quote, index):
-                    index += len(quote)
-                    quote = None
-                    continue
-                index += 1
+                index = found.end()
+                last = quote[0]
+                quote = None
                 continue
+            found = _SPECIAL.search(line, index)
+            stop = end if found is None else found.start()
+            segment = line[index:stop].rstrip()
+            if segment:
+                last = segment[-1]
+            if found is None:
+                break
+            char = found.group()
             if char == "#":
                 break
+            last = char
             if char in "([{":
                 self.depth += 1
             elif char in ")]}":
                 self.depth = max(0, self.depth - 1)
             elif char in "\"'":
-                quote = char * 3 if line.startswith(char * 3, index) else char
-                index += len(quote)
+                quote = char * 3 if line.startswith(char * 3, stop) else char
+                index = stop + len(quote)
                 continue
-            elif char == "\\" and index == end - 1:
+            elif char == "\\" and stop == end - 1:
                 self.continued = True
-            index += 1
+            index = stop + 1
         if quote is not None and len(quote) == 1 and not self.continued:
             quote = None  # an unterminated one-line string: a syntax error, not our concern
         self.quote = quote
+        if last:
+            self.opens_block = last == ":" and self.at_statement_start()
