@@ -194,3 +194,22 @@ def test_write_read_filter_round_trip(tmp_path):
     known = baseline.read(target)
     new = Finding(str(source), 2, 5, 2, 10, "DIM101", "m")
     assert baseline.filter_findings([old, new], known, target) == [new]
+
+
+def test_notebook_findings_are_fingerprinted_by_their_cell_line(tmp_path):
+    # Cells are numbered among all cells (markdown too) and lines within the cell, as in
+    # the contract's section 6; moving the cell keeps the fingerprint.
+    def notebook(*cells):
+        return json.dumps({"nbformat": 4, "nbformat_minor": 5, "metadata": {}, "cells": [
+            {"cell_type": kind, "metadata": {}, "source": source} for kind, source in cells]})
+
+    bug = ["t: Annotated[float, 's'] = 3.0\n", "x = L + t\n"]
+    path = tmp_path / "sizing.ipynb"
+    path.write_text(notebook(("markdown", ["# sizing"]), ("code", bug)))
+    before = baseline.entries_for([Finding(str(path), 2, 5, 2, 10, "DIM101", "m", cell=2)],
+                                  str(tmp_path / "b.json"))
+    assert before[0].fingerprint == baseline.fingerprint("DIM101", "x = L + t")
+    path.write_text(notebook(("markdown", ["# sizing"]), ("markdown", ["notes"]), ("code", bug)))
+    after = baseline.entries_for([Finding(str(path), 2, 5, 2, 10, "DIM101", "m", cell=3)],
+                                 str(tmp_path / "b.json"))
+    assert after == before
