@@ -63,11 +63,9 @@ _NUMBER = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?")
 _NUMPYDOC_SECTIONS = {"Parameters": "params", "Other Parameters": "params", "Returns": "returns"}
 _GOOGLE_SECTIONS = {"Args:": "params", "Arguments:": "params", "Returns:": "returns"}
 _UNDERLINE = re.compile(r"-{3,}")
-# One parameter name, possibly starred.
-_NAME = re.compile(r"\*{0,2}[A-Za-z_]\w*")
 # numpydoc entry: "x, y : float", "rho: float", "rho" (no type).
 _NUMPYDOC_ENTRY = re.compile(r"(\*{0,2}[A-Za-z_]\w*(?:\s*,\s*\*{0,2}[A-Za-z_]\w*)*)\s*(?::.*)?")
-# Google entry: "rho (float): text", "*args: text"; group 1 the name, group 2 the description.
+# Google entry head: "rho (float): ", "*args: "; group 1 is the name.
 _GOOGLE_ENTRY = re.compile(r"(\*{0,2}[A-Za-z_]\w*)\s*(?:\([^()]*(?:\([^()]*\)[^()]*)*\))?\s*:(?:\s|$)")
 # A line that looks like a nested entry ("speed: ...", "a (float): ...", "x, y : ...").
 _NESTED_ENTRY = re.compile(
@@ -150,8 +148,8 @@ def _numpydoc_section(lines, indents, header: int, kind: str, is_unit, found) ->
         if indent > entry_indent:
             index += 1  # a description line of an entry that was not read
             continue
-        if indent < entry_indent and indent > header_indent:
-            break  # weird indentation: stop reading this section
+        if indent < entry_indent:
+            break  # weird indentation (shallower than the first entry): stop here
         # An entry line.
         entry = lines[index].strip()
         description_start = index + 1
