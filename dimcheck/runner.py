@@ -11,6 +11,7 @@ import os
 import sys
 from dataclasses import dataclass, field
 
+from .cache import ResultCache, cache_key, default_folder
 from .cli.config import Config
 from .cli.discovery import discover
 from .declarations.suppressions import is_suppressed, skips_file
@@ -58,20 +59,30 @@ class Checker:
     """Checks files against one configuration; reusable across calls (keeps its unit table)."""
 
     def __init__(self, config: Config | None = None, select: list[str] | None = None,
-                 ignore: list[str] | None = None):
+                 ignore: list[str] | None = None, use_cache: bool = False):
         self.config = config or Config()
         chosen = select if select is not None else self.config.select
         self.codes = set(chosen or RULES)
         self.codes -= set(ignore if ignore is not None else self.config.ignore)
         self.table = load_unit_table(self.config.units, self.config.base_dimensions)
+        self.use_cache = use_cache
 
     def _keep(self, code: str, line_text: str) -> bool:
         return code in self.codes and not is_suppressed(code, line_text)
 
+    def _open_cache(self) -> ResultCache | None:
+        if not self.use_cache:
+            return None
+        from . import __version__
+        key = cache_key(__version__, self.config, self.table.key, self.config.stubs)
+        return ResultCache(default_folder(self.config), key)
+
     def check_files(self, files: list[str]) -> list[Finding]:
         project = Project(self.config.stubs)
         engine = Engine(project, self.table)
+        cache = self._open_cache()
         findings: list[Finding] = []
+        computed: list[str] = []
         old_limit = sys.getrecursionlimit()
         sys.setrecursionlimit(max(old_limit, 10000))
         # Syntax trees make millions of objects and no reference cycles worth collecting:
@@ -80,7 +91,17 @@ class Checker:
         gc.disable()
         try:
             for path in files:
-                findings.extend(self._check_file(project, engine, path))
+                shown = display_path(path)
+                raw = cache.lookup(path) if cache is not None else None
+                if raw is None:
+                    raw = self._file_findings(project, engine, path)
+                    if cache is not None:
+                        cache.store(path, raw)
+                        computed.append(path)
+                findings.extend(Finding(shown, *fields) for fields in raw if fields[4] in self.codes)
+            if cache is not None:
+                cache.record_graph(project.dependencies, computed)
+                cache.save()
         finally:
             sys.setrecursionlimit(old_limit)
             if gc_was_enabled:
@@ -88,29 +109,30 @@ class Checker:
         findings.sort(key=Finding.sort_key)
         return findings
 
-    def _check_file(self, project: Project, engine: Engine, path: str) -> list[Finding]:
-        shown = display_path(path)
+    @staticmethod
+    def _file_findings(project: Project, engine: Engine, path: str) -> list[list]:
+        """Every finding of one file, suppression comments applied, as plain field lists
+        ``[line, column, end_line, end_column, code, message]`` (what the cache stores)."""
         loaded = project.load(path)
         if loaded.text is not None and skips_file(loaded.text):
             return []
         if loaded.symbols is None:
             error = loaded.error
-            if "DIM902" not in self.codes:
-                return []
-            return [Finding(shown, error.line, error.column, error.line, error.column, "DIM902",
-                            error.message)]
+            return [[error.line, error.column, error.line, error.column, "DIM902", error.message]]
         module = loaded.symbols
         results = []
         for located in engine.check_module(module):
-            if self._keep(located.problem.code, module.line_text(located.line)):
-                results.append(_finding(located, shown))
+            if not is_suppressed(located.problem.code, module.line_text(located.line)):
+                finding = _finding(located, "")
+                results.append([finding.line, finding.column, finding.end_line, finding.end_column,
+                                finding.code, finding.message])
         return results
 
 
 def check_paths(paths: list[str], config: Config | None = None, select: list[str] | None = None,
-                ignore: list[str] | None = None) -> Report:
+                ignore: list[str] | None = None, use_cache: bool = False) -> Report:
     config = config or Config()
     base = str(config.base_dir) if config.source is not None else None
     files, errors = discover(paths, config.exclude, base)
-    checker = Checker(config, select, ignore)
+    checker = Checker(config, select, ignore, use_cache=use_cache)
     return Report(len(files), checker.check_files(files), errors)

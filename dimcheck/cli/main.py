@@ -14,7 +14,8 @@ import sys
 from .. import __version__
 from ..rules.registry import RULES
 from .config import ConfigError, load_config, parse_codes
-from . import analysis_commands, groups_command
+from . import analysis_commands, annotate_command, groups_command
+from . import serve_command
 
 EXIT_CLEAN, EXIT_FINDINGS, EXIT_TROUBLE = 0, 1, 2
 
@@ -59,6 +60,8 @@ def build_parser() -> argparse.ArgumentParser:
     commands.add_parser("rules", help="list the rule codes")
     groups_command.register(commands)
     analysis_commands.register(commands)
+    annotate_command.register(commands)
+    serve_command.register(commands)
     return parser
 
 
@@ -80,7 +83,7 @@ def _run_check(args) -> int:
         except baseline.BaselineError as error:
             raise UsageError(str(error)) from None
     paths = args.paths or config.paths or ["."]
-    report = check_paths(paths, config, select, ignore)
+    report = check_paths(paths, config, select, ignore, use_cache=not args.no_cache)
     for error in report.errors:
         print(f"dimcheck: error: {error}", file=sys.stderr)
     if args.write_baseline is not None:
@@ -129,6 +132,10 @@ def main(argv: list[str] | None = None) -> int:
             return analysis_commands.run_explain(args)
         if args.command == "coverage":
             return analysis_commands.run_coverage(args)
+        if args.command == "serve":
+            return serve_command.run(args)
+        if args.command == "annotate":
+            return annotate_command.run(args)
         parser.print_help()
         return EXIT_TROUBLE
     except (UsageError, ConfigError, analysis_commands.CommandError) as error:

@@ -154,7 +154,7 @@ class Engine:
                 return self.declared(module, module.aliases[name])
             ref = module.imports.get(name)
             if ref is not None and ref.attr is not None:
-                target = self.project.find_module(self.project.resolve_import(module, ref))
+                target = self.project.find_from(module, self.project.resolve_import(module, ref))
                 if target is not None:
                     return self._alias(target, (ref.attr,), depth + 1)
             return None
@@ -165,7 +165,7 @@ class Engine:
         dotted = f"{base}.{ref.attr}" if ref.attr else base
         for middle in parts[1:-1]:
             dotted = f"{dotted}.{middle}"
-        target = self.project.find_module(dotted)
+        target = self.project.find_from(module, dotted)
         return self._alias(target, parts[-1:], depth + 1) if target is not None else None
 
     def global_declaration(self, module: ModuleSymbols, name: str) -> Quantity | None:
@@ -229,13 +229,14 @@ class Engine:
     def _import_value(self, module: ModuleSymbols, ref: ImportRef) -> Any:
         base = self.project.resolve_import(module, ref)
         if ref.attr is None:
+            self.project.find_from(module, base)
             return ModuleValue(base)
-        target = self.project.find_module(base)
+        target = self.project.find_from(module, base)
         if target is not None and (self._defines(target, ref.attr) or not target.is_stub):
             if self._defines(target, ref.attr):
                 return self.module_name_value(target, ref.attr)
         submodule = f"{base}.{ref.attr}"
-        if self.project.find_module(submodule) is not None:
+        if self.project.find_from(module, submodule) is not None:
             return ModuleValue(submodule)
         if target is not None:
             return self.module_name_value(target, ref.attr)
@@ -244,11 +245,12 @@ class Engine:
     # == attributes ========================================================================
     def attribute_value(self, owner: Any, attr: str, evaluator: ScopeEvaluator) -> Any:
         if isinstance(owner, ModuleValue):
-            target = self.project.find_module(owner.name)
+            requester = evaluator.module if evaluator is not None else None
+            target = self.project.find_from(requester, owner.name)
             if target is not None and self._defines(target, attr):
                 return self.module_name_value(target, attr)
             submodule = f"{owner.name}.{attr}"
-            if self.project.find_module(submodule) is not None:
+            if self.project.find_from(requester, submodule) is not None:
                 return ModuleValue(submodule)
             return self.module_name_value(target, attr) if target is not None else UNKNOWN
         if isinstance(owner, (InstanceValue, ClassValue)):

@@ -113,6 +113,8 @@ class Project:
             self._index_stubs(Path(folder))
         self._stub_modules: dict[str, ModuleSymbols | None] = {}
         self._tainted: dict[str, bool] = {}
+        # module path -> paths of the modules it was seen to use: what its result depends on
+        self.dependencies: dict[str, set[str]] = {}
 
     # -- stubs ------------------------------------------------------------------------
     def _index_stubs(self, folder: Path) -> None:
@@ -187,6 +189,34 @@ class Project:
                     return loaded.symbols
         self._by_name[name] = None  # remember the miss
         return None
+
+    def find_from(self, requester: ModuleSymbols | None, name: str) -> ModuleSymbols | None:
+        """``find_module`` on behalf of a module, remembering that it depends on the result."""
+        target = self.find_module(name)
+        if requester is not None:
+            used = self.dependencies.setdefault(os.path.abspath(requester.path), set())
+            if target is not None:
+                used.add(os.path.abspath(target.path))
+            elif not self.has_stub(name):
+                used.update(self.candidate_paths(name))  # a file appearing there changes things
+        return target
+
+    def candidate_paths(self, name: str) -> list[str]:
+        relative = Path(*name.split("."))
+        return [str(root / relative.with_suffix(".py")) for root in self._roots] + \
+               [str(root / relative / "__init__.py") for root in self._roots]
+
+    def dependency_closure(self, path: str) -> set[str]:
+        """Every module path a module's result may depend on (itself excluded)."""
+        seen: set[str] = set()
+        stack = [path]
+        while stack:
+            for used in self.dependencies.get(stack.pop(), ()):
+                if used not in seen:
+                    seen.add(used)
+                    stack.append(used)
+        seen.discard(path)
+        return seen
 
     def resolve_import(self, module: ModuleSymbols, ref: ImportRef) -> str:
         """The absolute dotted name an import refers to (for ``from x import y``: x)."""
@@ -263,17 +293,17 @@ class Project:
     def _import_targets(self, module: ModuleSymbols, ref: ImportRef):
         base = self.resolve_import(module, ref)
         if ref.attr is None:
-            target = self.find_module(base)
+            target = self.find_from(module, base)
             if target is not None:
                 yield ("module", target)
             elif self._unitful_stub_below(base):
                 yield _UNIT_BEARING
             return
-        submodule = self.find_module(f"{base}.{ref.attr}")
+        submodule = self.find_from(module, f"{base}.{ref.attr}")
         if submodule is not None:
             yield ("module", submodule)
             return
-        target = self.find_module(base)
+        target = self.find_from(module, base)
         if target is not None:
             yield ("name", target, ref.attr)
 

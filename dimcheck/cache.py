@@ -1,0 +1,146 @@
+"""The result cache: findings per file, reused while nothing they depend on has changed.
+
+An entry holds a file's unfiltered findings, the hash of its content and the hashes of
+every module it was seen to use (its dependency closure, including files that did *not*
+exist where an import was looked for). The whole cache is keyed by the dimcheck version,
+the configuration that affects inference, the unit table and the stubs; any change there
+starts afresh. The file is written atomically, so a run killed part-way or two runs at
+once never leave a half-written cache, and a cache that cannot be read is ignored.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+import os
+import tempfile
+from pathlib import Path
+
+FORMAT = 1
+ABSENT = "absent"
+
+
+def content_hash(path: str) -> str:
+    try:
+        with open(path, "rb") as handle:
+            return hashlib.blake2b(handle.read(), digest_size=16).hexdigest()
+    except OSError:
+        return ABSENT
+
+
+class ResultCache:
+    """``modules``: every module seen, with its content hash and the modules it used
+    directly; ``findings``: per checked file. A file's findings are reused when it and
+    everything reachable from it in that graph still hash the same."""
+
+    def __init__(self, folder: Path, key: str):
+        self.path = folder / "results.json"
+        self.key = key
+        self.modules: dict[str, dict] = {}
+        self.findings: dict[str, list] = {}
+        self._hashes: dict[str, str] = {}
+        self._stale: set[str] | None = None
+        self._dirty = False
+        self._load()
+
+    def _load(self) -> None:
+        try:
+            data = json.loads(self.path.read_text(encoding="utf-8"))
+        except (OSError, ValueError, UnicodeDecodeError):
+            return
+        if (isinstance(data, dict) and data.get("format") == FORMAT and data.get("key") == self.key
+                and isinstance(data.get("modules"), dict) and isinstance(data.get("findings"), dict)):
+            self.modules, self.findings = data["modules"], data["findings"]
+
+    def hash_of(self, path: str) -> str:
+        digest = self._hashes.get(path)
+        if digest is None:
+            digest = self._hashes[path] = content_hash(path)
+        return digest
+
+    def _stale_set(self) -> set[str]:
+        """Modules whose content changed, and every module that uses one, however indirectly."""
+        if self._stale is not None:
+            return self._stale
+        users: dict[str, list[str]] = {}
+        changed: list[str] = []
+        for module, entry in self.modules.items():
+            if not isinstance(entry, dict) or entry.get("hash") != self.hash_of(module):
+                changed.append(module)
+                continue
+            for used in entry.get("deps", ()):
+                users.setdefault(used, []).append(module)
+        for used in users:
+            if used not in self.modules and self.hash_of(used) != ABSENT:
+                changed.append(used)  # a file now exists where an import found none
+        stale = set(changed)
+        stack = list(changed)
+        while stack:
+            for user in users.get(stack.pop(), ()):
+                if user not in stale:
+                    stale.add(user)
+                    stack.append(user)
+        self._stale = stale
+        return stale
+
+    def lookup(self, path: str) -> list | None:
+        """The cached findings of a file, if it and everything it used are unchanged."""
+        key = os.path.abspath(path)
+        found = self.findings.get(key)
+        if not isinstance(found, list) or key not in self.modules or key in self._stale_set():
+            return None
+        return list(found)
+
+    def store(self, path: str, findings: list) -> None:
+        self.findings[os.path.abspath(path)] = findings
+        self._dirty = True
+
+    def record_graph(self, dependencies: dict[str, set[str]], checked: list[str]) -> None:
+        """The module graph as the project saw it this run: each module's hash and uses."""
+        for module in [os.path.abspath(path) for path in checked]:
+            self.modules[module] = {"hash": self.hash_of(module), "deps": sorted(dependencies.get(module, ()))}
+        for module, used in dependencies.items():
+            self.modules[module] = {"hash": self.hash_of(module), "deps": sorted(used)}
+            for target in used:
+                if target not in self.modules and self.hash_of(target) != ABSENT:
+                    self.modules[target] = {"hash": self.hash_of(target),
+                                            "deps": sorted(dependencies.get(target, ()))}
+
+    def save(self) -> None:
+        if not self._dirty:
+            return
+        data = {"format": FORMAT, "key": self.key, "modules": self.modules, "findings": self.findings}
+        temporary = None
+        try:
+            self.path.parent.mkdir(parents=True, exist_ok=True)
+            handle, temporary = tempfile.mkstemp(dir=self.path.parent, prefix=".results-", suffix=".tmp")
+            with os.fdopen(handle, "w", encoding="utf-8") as stream:
+                json.dump(data, stream, separators=(",", ":"))
+            os.replace(temporary, self.path)
+        except OSError:
+            if temporary is not None:
+                try:
+                    os.unlink(temporary)
+                except OSError:
+                    pass
+
+
+def cache_key(version: str, config, table_key: str, stub_dirs: list) -> str:
+    """What, besides the files themselves, decides the findings."""
+    from .inference.project import SHIPPED_STUBS
+
+    digest = hashlib.blake2b(digest_size=16)
+    digest.update(f"{FORMAT}|{version}|{table_key}".encode())
+    digest.update(json.dumps([config.docstring_units, config.suffix_units, sorted(config.name_units.items()),
+                              config.base_dimensions], default=str).encode())
+    for folder in [SHIPPED_STUBS, *stub_dirs]:
+        for stub in sorted(Path(folder).rglob("*.pyi")):
+            digest.update(str(stub).encode())
+            digest.update(content_hash(str(stub)).encode())
+    return digest.hexdigest()
+
+
+def default_folder(config) -> Path:
+    """``.dimcheck_cache`` beside the configuration file, or in the current folder."""
+    base = config.source.parent if config.source is not None else Path.cwd()
+    return base / ".dimcheck_cache"

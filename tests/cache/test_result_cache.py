@@ -1,0 +1,98 @@
+"""The result cache gives the same findings as a fresh run, whatever changed in between."""
+
+import json
+import os
+import subprocess
+import sys
+import textwrap
+from pathlib import Path
+
+import pytest
+
+UNITS = textwrap.dedent("""\
+    from typing import Annotated
+    Length = Annotated[float, "m"]
+    Time = Annotated[float, "s"]
+""")
+USE = textwrap.dedent("""\
+    from units import Length, Time
+    def f(h: Length, t: Time):
+        return h + t
+""")
+
+
+def check(folder: Path, *extra):
+    result = subprocess.run([sys.executable, "-m", "dimcheck", "check", ".", "--format", "json", *extra],
+                            cwd=folder, capture_output=True, text=True, timeout=120)
+    assert "Traceback" not in result.stderr
+    return [(f["path"], f["line"], f["code"]) for f in json.loads(result.stdout)["findings"]]
+
+
+@pytest.fixture
+def tree(tmp_path):
+    (tmp_path / "units.py").write_text(UNITS)
+    (tmp_path / "use.py").write_text(USE)
+    return tmp_path
+
+
+def test_warm_run_matches_cold_and_uses_the_cache(tree):
+    cold = check(tree)
+    assert cold == [("use.py", 3, "DIM101")]
+    assert (tree / ".dimcheck_cache" / "results.json").is_file()
+    assert check(tree) == cold
+
+
+def test_editing_a_file_rechecks_it(tree):
+    check(tree)
+    (tree / "use.py").write_text(USE.replace("h + t", "h * t"))
+    assert check(tree) == []
+
+
+def test_editing_an_imported_module_rechecks_its_users(tree):
+    check(tree)
+    (tree / "units.py").write_text(UNITS.replace('"s"', '"m"'))
+    assert check(tree) == []
+
+
+def test_a_module_appearing_where_an_import_found_none(tmp_path):
+    (tmp_path / "use.py").write_text(USE)
+    assert check(tmp_path) == []
+    (tmp_path / "units.py").write_text(UNITS)
+    assert check(tmp_path) == [("use.py", 3, "DIM101")]
+
+
+def test_configuration_change_starts_afresh(tmp_path):
+    (tmp_path / "bridge.py").write_text('from typing import Annotated\nspan: Annotated[float, "smoot"] = 364.4\n')
+    assert check(tmp_path) == [("bridge.py", 2, "DIM901")]  # an invented unit, not yet defined
+    (tmp_path / "defs.txt").write_text("smoot = 1.7018 * meter\n")
+    (tmp_path / "pyproject.toml").write_text('[tool.dimcheck]\nunits = ["defs.txt"]\n')
+    assert check(tmp_path) == []
+
+
+def test_corrupt_cache_is_ignored_and_rebuilt(tree):
+    check(tree)
+    (tree / ".dimcheck_cache" / "results.json").write_text("{not json")
+    assert check(tree) == [("use.py", 3, "DIM101")]
+    json.loads((tree / ".dimcheck_cache" / "results.json").read_text())
+
+
+def test_no_cache_neither_reads_nor_writes(tree):
+    assert check(tree, "--no-cache") == [("use.py", 3, "DIM101")]
+    assert not (tree / ".dimcheck_cache").exists()
+
+
+def test_killed_or_concurrent_runs_leave_a_usable_cache(tree):
+    # Two runs at once: each writes its cache with an atomic replace, so the file is
+    # always one complete run's, and later results are still right.
+    runs = [subprocess.Popen([sys.executable, "-m", "dimcheck", "check", "."], cwd=tree,
+                             stdout=subprocess.DEVNULL, stderr=subprocess.PIPE) for _ in range(3)]
+    for run in runs:
+        run.wait(timeout=120)
+    # A run killed part-way leaves at most a temporary file, never a half-written cache.
+    killed = subprocess.Popen([sys.executable, "-m", "dimcheck", "check", "."], cwd=tree)
+    killed.kill()
+    killed.wait()
+    (tree / "use.py").write_text(USE.replace("h + t", "h * t"))
+    assert check(tree) == []
+    (tree / "use.py").write_text(USE)
+    assert check(tree) == [("use.py", 3, "DIM101")]
