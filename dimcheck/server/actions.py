@@ -1,0 +1,45 @@
+"""The quick fix offered on a finding: a suppression comment on its line.
+
+The comment is the one ``dimcheck check`` honours (``# dimcheck: ignore[DIM101]``): added
+at the end of the line, or the code is added to a list the line already has.
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+
+# the same spelling as declarations/suppressions.py reads
+_IGNORE_LIST = re.compile(r"#\s*dimcheck:\s*ignore\[([A-Za-z0-9,\s]*)\]")
+_IGNORE_ALL = re.compile(r"#\s*dimcheck:\s*ignore(?!\[)")
+
+
+@dataclass(frozen=True)
+class LineEdit:
+    """Replace ``line[start:end]`` with ``text`` (string indices on one line)."""
+
+    start: int
+    end: int
+    text: str
+
+
+def suppression_edit(line: str, code: str) -> LineEdit | None:
+    """The edit that suppresses ``code`` on ``line``, or None when there is nothing to do
+    (already suppressed) or no comment can go there (a backslash continues the line)."""
+    listed = _IGNORE_LIST.search(line)
+    if listed is not None:
+        inside = listed.group(1)
+        codes = [part.strip().upper() for part in inside.split(",") if part.strip()]
+        if code in codes:
+            return None
+        close = listed.end(1)
+        if not codes:
+            return LineEdit(listed.start(1), close, code)
+        kept = inside.rstrip()
+        return LineEdit(listed.start(1) + len(kept), close, f", {code}")
+    if _IGNORE_ALL.search(line) is not None:
+        return None
+    content = line.rstrip()
+    if not content or content.endswith("\\"):
+        return None
+    return LineEdit(len(content), len(line), f" # dimcheck: ignore[{code}]")
