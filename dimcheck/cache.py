@@ -133,6 +133,10 @@ def cache_key(version: str, config, table_key: str, stub_dirs: list) -> str:
     digest.update(f"{FORMAT}|{version}|{table_key}".encode())
     digest.update(json.dumps([config.docstring_units, config.suffix_units, sorted(config.name_units.items()),
                               config.base_dimensions], default=str).encode())
+    package = Path(__file__).resolve().parent
+    for source in sorted(package.rglob("*.py")):  # a changed dimcheck must not reuse old results
+        stat = source.stat()
+        digest.update(f"{source}:{stat.st_mtime_ns}:{stat.st_size}".encode())
     for folder in [SHIPPED_STUBS, *stub_dirs]:
         for stub in sorted(Path(folder).rglob("*.pyi")):
             digest.update(str(stub).encode())

@@ -12,7 +12,8 @@ import sys
 from dataclasses import dataclass, field
 
 from .cache import ResultCache, cache_key, default_folder
-from .cli.config import Config
+from .cli.config import Config, ConfigError
+from .declarations.symbols import DeclarationOptions
 from .cli.discovery import discover
 from .declarations.suppressions import is_suppressed, skips_file
 from .inference.engine import Engine
@@ -66,6 +67,7 @@ class Checker:
         self.codes -= set(ignore if ignore is not None else self.config.ignore)
         self.table = load_unit_table(self.config.units, self.config.base_dimensions)
         self.use_cache = use_cache
+        self.options = declaration_options(self.config, self.table)
 
     def _keep(self, code: str, line_text: str) -> bool:
         return code in self.codes and not is_suppressed(code, line_text)
@@ -77,8 +79,11 @@ class Checker:
         key = cache_key(__version__, self.config, self.table.key, self.config.stubs)
         return ResultCache(default_folder(self.config), key)
 
+    def new_project(self) -> Project:
+        return Project(self.config.stubs, self.options)
+
     def check_files(self, files: list[str]) -> list[Finding]:
-        project = Project(self.config.stubs)
+        project = self.new_project()
         engine = Engine(project, self.table)
         cache = self._open_cache()
         findings: list[Finding] = []
@@ -118,15 +123,45 @@ class Checker:
             return []
         if loaded.symbols is None:
             error = loaded.error
-            return [[error.line, error.column, error.line, error.column, "DIM902", error.message]]
+            return [[error.line, error.column, error.line, error.column, "DIM902", error.message, error.cell]]
         module = loaded.symbols
         results = []
         for located in engine.check_module(module):
             if not is_suppressed(located.problem.code, module.line_text(located.line)):
                 finding = _finding(located, "")
-                results.append([finding.line, finding.column, finding.end_line, finding.end_column,
-                                finding.code, finding.message])
+                line, end_line, cell = finding.line, finding.end_line, None
+                if loaded.notebook is not None:  # lines are counted within the finding's cell
+                    cell, line = loaded.notebook.locate(finding.line)
+                    end_cell, end_in_cell = loaded.notebook.locate(finding.end_line)
+                    end_line = end_in_cell if end_cell == cell else line
+                results.append([line, finding.column, end_line, finding.end_column,
+                                finding.code, finding.message, cell])
         return results
+
+
+def declaration_options(config: Config, table) -> DeclarationOptions:
+    """Docstring and name-pattern sources, as configured; a bad unit in the name table is a
+    configuration error (exit 2) rather than a finding on every name it would match."""
+    from .declarations.names import NameUnits
+    from .units import UnitError, parse_unit
+
+    for pattern, unit in config.name_units.items():
+        try:
+            parse_unit(unit, table)
+        except UnitError as error:
+            where = config.source or "configuration"
+            raise ConfigError(f"{where}: [tool.dimcheck.name-units] {pattern!r}: {error}") from None
+    names = NameUnits(config.name_units, config.suffix_units)
+
+    def is_unit(text: str) -> bool:
+        try:
+            parse_unit(text, table)
+        except UnitError:
+            return False
+        return True
+
+    return DeclarationOptions(docstring_units=config.docstring_units, is_unit=is_unit,
+                              names=names if names.active else None)
 
 
 def check_paths(paths: list[str], config: Config | None = None, select: list[str] | None = None,

@@ -359,7 +359,7 @@ def plan(paths: list[str], config=None) -> Plan:
     config = checker.config
     files, errors = discover(paths, config.exclude, str(config.base_dir) if config.source else None)
     result = Plan(errors=list(errors))
-    project = Project(config.stubs)
+    project = checker.new_project()
     engine = Engine(project, checker.table)
     name_units = NameUnits(dict(config.name_units), bool(config.suffix_units))
 

@@ -98,7 +98,7 @@ def measure(paths: list[str], config=None) -> CoverageReport:
     checker = Checker(config)
     files, _ = discover(paths, checker.config.exclude,
                         str(checker.config.base_dir) if checker.config.source else None)
-    project = Project(checker.config.stubs)
+    project = checker.new_project()
     engine = Engine(project, checker.table)
     known: set[int] = set()
 

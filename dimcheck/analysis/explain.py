@@ -75,7 +75,7 @@ def explain(target: Target, config=None) -> list[str]:
     if not os.path.isfile(target.path):
         raise ExplainError(f"file not found: {target.path}")
     checker = Checker(config)
-    project = Project(checker.config.stubs)
+    project = checker.new_project()
     loaded = project.load(target.path)
     if loaded.symbols is None:
         raise ExplainError(f"{target.path}: {loaded.error.message}")

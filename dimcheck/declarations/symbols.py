@@ -94,6 +94,10 @@ class ModuleSymbols:
     comment_specs: dict[int, UnitText] = field(default_factory=dict)
     # in stubs only: ``milli = 1e-3`` names a plain scale factor that acts like a literal
     stub_numbers: dict[str, float] = field(default_factory=dict)
+    options: "DeclarationOptions" = None  # set by the project; None means no extra sources
+    name_specs: dict[str, UnitText | None] = field(default_factory=dict)
+    # (docstring spec, explicit spec, where) pairs that must agree: DIM206 when they do not
+    docstring_conflicts: list = field(default_factory=list)
 
     _lines: list[str] | None = None
 
@@ -125,23 +129,52 @@ def comment_spec(module: ModuleSymbols, first_line: int, last_line: int) -> Unit
         if found is not None:
             spec = module.comment_specs.get(line)
             if spec is None:
-                spec = module.comment_specs[line] = UnitText(found.text, _CommentNode(found))
+                spec = module.comment_specs[line] = UnitText(
+                    found.text, DeclarationSite(found.line, found.column, len(found.text), "comment"))
             return spec
     return None
 
 
-class _CommentNode(ast.AST):
-    """A stand-in node that gives a comment unit a location for DIM901."""
+class DeclarationSite(ast.AST):
+    """A stand-in node giving a unit declared outside an annotation (a comment, a docstring,
+    a name) its location for DIM901, and saying which of these it was (``declared_by``)."""
 
     _attributes = ("lineno", "col_offset", "end_lineno", "end_col_offset")
 
-    def __init__(self, comment: CommentUnit):
+    def __init__(self, line: int, column: int, length: int, declared_by: str, name: str = ""):
         super().__init__()
-        self.lineno = comment.line
-        self.col_offset = comment.column - 1
-        self.end_lineno = comment.line
-        self.end_col_offset = comment.column - 1 + len(comment.text)
-        self.from_comment = True
+        self.lineno = line
+        self.col_offset = column - 1
+        self.end_lineno = line
+        self.end_col_offset = column - 1 + length
+        self.declared_by = declared_by
+        self.declared_name = name
+
+
+@dataclass(frozen=True)
+class DeclarationOptions:
+    """Where units may come from besides annotations, comments and stubs (contract, section 6)."""
+
+    docstring_units: bool = True
+    is_unit: object = None  # callable(text) -> bool: whether a docstring bracket is a unit
+    names: object = None  # a NameUnits, or None when no name pattern applies
+
+
+NO_EXTRA_SOURCES = DeclarationOptions(docstring_units=False)
+
+
+def name_spec(module: "ModuleSymbols", name: str, line: int, column: int) -> UnitText | None:
+    """The unit a name pattern gives a name, one spec object per (module, name)."""
+    names = module.options.names
+    if names is None:
+        return None
+    spec = module.name_specs.get(name)
+    if spec is None and name not in module.name_specs:
+        found = names.unit_for(name)
+        if found is not None:
+            spec = UnitText(found[0], DeclarationSite(line, column, len(name), "name", name))
+        module.name_specs[name] = spec
+    return spec
 
 
 def read_parameters(module: ModuleSymbols, node) -> list[ParamInfo]:
@@ -181,7 +214,44 @@ def make_function(module: ModuleSymbols, node, qualname: str, owner: ClassInfo |
         params=read_parameters(module, node), return_spec=returns, owner=owner,
         decorators=decorator_names(node),
     )
+    options = module.options
+    if options is not None and not module.is_stub and not isinstance(node, ast.Lambda):
+        _add_docstring_units(module, info, options)
+        if options.names is not None:
+            for param in info.params:
+                if param.spec is None:
+                    param.spec = name_spec(module, param.name, param.node.lineno, param.node.col_offset + 1)
     return info
+
+
+def _add_docstring_units(module: ModuleSymbols, info: FunctionInfo, options: DeclarationOptions) -> None:
+    """Parameter and return units from the docstring: they fill in what has no explicit
+    declaration, and must agree with what has one."""
+    if not options.docstring_units:
+        return
+    body = info.node.body
+    if not (body and isinstance(body[0], ast.Expr) and isinstance(body[0].value, ast.Constant)
+            and isinstance(body[0].value.value, str) and "]" in body[0].value.value):
+        return
+    from .docstrings import docstring_units
+
+    literal = body[0].value
+    params = {param.name: param for param in info.params}
+    for found in docstring_units(literal.value, options.is_unit):
+        line = literal.lineno + found.line - 1
+        column = found.column + (literal.col_offset + 3 if found.line == 1 else 0)
+        spec = UnitText(found.text, DeclarationSite(line, column, len(found.text), "docstring", found.name))
+        if found.name == "return":
+            if info.return_spec is None:
+                info.return_spec = spec
+            else:
+                module.docstring_conflicts.append((spec, info.return_spec, "return value"))
+        elif found.name in params:
+            param = params[found.name]
+            if param.spec is None:
+                param.spec = spec
+            else:
+                module.docstring_conflicts.append((spec, param.spec, f"parameter '{found.name}'"))
 
 
 def _is_record_class(node: ast.ClassDef) -> bool:

@@ -120,16 +120,17 @@ class Engine:
 
     def _unit_text(self, module: ModuleSymbols, spec: UnitText) -> Quantity | GenericUnit | None:
         text = spec.text.strip()
-        from_comment = getattr(spec.node, "from_comment", False)
-        kind = "stub" if module.is_stub else ("comment" if from_comment else "annotation")
-        origin = Origin(module.path, getattr(spec.node, "lineno", 0), kind)
+        declared_by = getattr(spec.node, "declared_by", None)
+        kind = "stub" if module.is_stub else (declared_by or "annotation")
+        origin = Origin(module.path, getattr(spec.node, "lineno", 0), kind,
+                        getattr(spec.node, "declared_name", ""))
         if "$" in text:
             try:
                 return parse_generic(text)
             except GenericSyntaxError as error:
                 self._declaration_problem(module, spec.node, str(error))
                 return None
-        if from_comment and text in ("", "-"):
+        if declared_by in ("comment", "docstring") and text in ("", "-"):
             return Quantity(DIMENSIONLESS, (1.0,), "1", origin=origin)
         try:
             unit = parse_unit(text, self.table)
@@ -553,11 +554,24 @@ class Engine:
             problems.extend(self.baseline(function).problems)
         self._validate_declarations(module)
         problems.extend(self._declaration_problems[module.path].values())
+        problems.extend(self._docstring_conflicts(module))
         unique: dict[tuple, Located] = {}
         for located in problems:
             if located.path == module.path:
                 unique.setdefault(located.key + (located.chain,), located)
         return list(unique.values())
+
+    def _docstring_conflicts(self, module: ModuleSymbols) -> list[Located]:
+        """A docstring unit that contradicts the explicit declaration it documents (DIM206)."""
+        found = []
+        for documented, explicit, what in module.docstring_conflicts:
+            said, declared = self.declared(module, documented), self.declared(module, explicit)
+            problem = checks.check_docstring_agrees(what, said, declared)
+            if problem is not None:
+                node = documented.node
+                found.append(Located(problem, module.path, node.lineno, node.col_offset,
+                                     node.end_lineno, node.end_col_offset))
+        return found
 
     def _validate_declarations(self, module: ModuleSymbols) -> None:
         """Parse every declaration of the module, used or not, so bad units are reported."""

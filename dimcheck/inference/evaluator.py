@@ -17,7 +17,7 @@ from fractions import Fraction
 from typing import TYPE_CHECKING, Any
 
 from ..declarations.symbols import FunctionInfo, make_function, read_annotation, record_import
-from ..declarations.symbols import comment_spec
+from ..declarations.symbols import comment_spec, name_spec
 from ..rules import checks
 from ..units.dimension import DIMENSIONLESS
 from ..rules.checks import Problem
@@ -155,11 +155,17 @@ class ScopeEvaluator:
             return quantity
         return None
 
-    def declared_for(self, name: str) -> Quantity | None:
+    def declared_for(self, name: str, node: ast.AST | None = None) -> Quantity | None:
         if name in self.declared:
             return self.declared[name]
         if self.is_module_scope or name in self.global_names:
-            return self.engine.global_declaration(self.module, name)
+            found = self.engine.global_declaration(self.module, name)
+            if found is not None:
+                return found
+        if node is not None and self.module.options is not None and self.module.options.names is not None:
+            spec = name_spec(self.module, name, node.lineno, node.col_offset + 1)
+            if spec is not None:
+                return self.declare(name, spec)  # a unit from the name's pattern (*_mm, ...)
         return None
 
     # -- statements ---------------------------------------------------------------------
@@ -235,7 +241,7 @@ class ScopeEvaluator:
 
     def bind(self, target: ast.expr, value: Any, value_node: ast.AST) -> None:
         if isinstance(target, ast.Name):
-            declared = self.declared_for(target.id)
+            declared = self.declared_for(target.id, target)
             if declared is not None:
                 self.report(value_node, checks.check_binding(f"'{target.id}'", declared, value))
                 self.env[target.id] = declared

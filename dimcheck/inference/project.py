@@ -16,7 +16,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from ..declarations.comments import trailing_comment_units
-from ..declarations.symbols import ImportRef, ModuleSymbols, collect_symbols
+from ..declarations.symbols import DeclarationOptions, ImportRef, ModuleSymbols, collect_symbols
 
 SHIPPED_STUBS = Path(__file__).resolve().parent.parent / "stubs"
 
@@ -44,6 +44,7 @@ class UnreadableFile(Exception):
         self.message = message
         self.line = line
         self.column = column
+        self.cell: int | None = None  # in a notebook, the cell the line is counted in
 
 
 def read_source(path: str) -> str:
@@ -80,6 +81,29 @@ def parse_source(text: str, path: str) -> ast.Module:
         raise UnreadableFile("cannot parse file: nesting too deep for the Python parser") from None
 
 
+def read_notebook_source(path: str):
+    """A notebook's code cells as one module (never run); a bad notebook is DIM902."""
+    from ..declarations.notebooks import NotebookError, read_notebook_file
+
+    try:
+        return read_notebook_file(path)
+    except NotebookError as error:
+        raise UnreadableFile(f"cannot read notebook: {error}") from None
+
+
+def parse_notebook(notebook, path: str) -> ast.Module:
+    try:
+        return parse_source(notebook.text, path)
+    except UnreadableFile as error:
+        cells = notebook.cell_syntax_errors()
+        if cells:
+            cell, line, message = cells[0]
+            located = UnreadableFile(f"syntax error in cell {cell}: {message}", line, 1)
+            located.cell = cell
+            raise located from None
+        raise error
+
+
 def module_name_for(path: Path) -> tuple[str, Path, bool]:
     """The dotted module name of a file, the folder imports are relative to, and is-package."""
     path = path.resolve()
@@ -100,10 +124,12 @@ class LoadedModule:
     symbols: ModuleSymbols | None
     error: UnreadableFile | None = None
     text: str | None = None  # the decoded source, when it could be read
+    notebook: object = None  # for a .ipynb file, its NotebookSource (maps lines to cells)
 
 
 class Project:
-    def __init__(self, stub_dirs: list[Path] | tuple = ()):
+    def __init__(self, stub_dirs: list[Path] | tuple = (), options: DeclarationOptions | None = None):
+        self.options = options
         self._by_path: dict[str, LoadedModule] = {}
         self._by_name: dict[str, str] = {}
         self._roots: list[Path] = []
@@ -152,19 +178,24 @@ class Project:
         loaded = self._by_path.get(key)
         if loaded is not None:
             return loaded
-        text = None
+        text = notebook = None
         try:
-            text = read_source(path)
-            tree = parse_source(text, path)
+            if path.endswith(".ipynb"):
+                notebook = read_notebook_source(path)
+                text = notebook.text
+            else:
+                text = read_source(path)
+            tree = parse_notebook(notebook, path) if notebook is not None else parse_source(text, path)
         except UnreadableFile as error:
-            loaded = LoadedModule(None, error, text)
+            loaded = LoadedModule(None, error, text, notebook)
             self._by_path[key] = loaded
             return loaded
         name, root, is_package = module_name_for(Path(path))
         if root not in self._roots:
             self._roots.append(root)
-        symbols = ModuleSymbols(path, name, tree, text, trailing_comment_units(text), is_package=is_package)
-        loaded = LoadedModule(collect_symbols(symbols), None, text)
+        symbols = ModuleSymbols(path, name, tree, text, trailing_comment_units(text), is_package=is_package,
+                                options=self.options)
+        loaded = LoadedModule(collect_symbols(symbols), None, text, notebook)
         self._by_path[key] = loaded
         if self._by_name.get(name) is None:
             self._by_name[name] = key

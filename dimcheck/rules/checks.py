@@ -45,9 +45,29 @@ def _missing_factor(value: Quantity, declared: Quantity) -> str:
 
 
 def described(quantity: Quantity) -> str:
-    """``m/s [L T^-1] (velocity)``: unit, dimension and, where it has one, the kind's name."""
+    """``m/s [L T^-1] (velocity)``: unit, dimension and, where it has one, the kind's name;
+    and where the unit was read from a name or a docstring, that it was."""
     kind = kind_of(quantity.dimension)
-    return f"{quantity.describe()} ({kind})" if kind else quantity.describe()
+    text = f"{quantity.describe()} ({kind})" if kind else quantity.describe()
+    origin = quantity.origin
+    if origin is not None and origin.kind == "name":
+        text += f" from the name '{origin.name}'"
+    elif origin is not None and origin.kind == "docstring":
+        text += f" from the docstring (line {origin.line})"
+    return text
+
+
+def check_docstring_agrees(what: str, documented, declared) -> Problem | None:
+    """The unit a docstring gives a parameter or return against its explicit declaration."""
+    if not (isinstance(documented, Quantity) and isinstance(declared, Quantity)):
+        return None
+    if documented.dimension != declared.dimension:
+        return Problem("DIM206", f"the docstring gives {what} as {documented.describe()} but it is "
+                                 f"declared {declared.describe()}")
+    if not quantities_share_scale(documented, declared):
+        return Problem("DIM206", f"the docstring gives {what} in {documented.display_unit()} but it is "
+                                 f"declared {declared.display_unit()} (same dimension, another scale)")
+    return None
 
 
 def _is_degree_to_radian(value: Quantity, target: Quantity) -> bool:

@@ -44,6 +44,8 @@ _RULES = (
     Rule("DIM205", "power-law-coefficient", WARNING,
          "a dimensional value is raised to an empirical non-integer power, so the law's "
          "coefficient carries hidden units"),
+    Rule("DIM206", "docstring-mismatch", WARNING,
+         "a unit written in a docstring contradicts the explicit declaration of the same parameter or return"),
     Rule("DIM901", "bad-unit", ERROR,
          "a declared unit expression cannot be parsed or is unknown"),
     Rule("DIM902", "unreadable-file", ERROR,

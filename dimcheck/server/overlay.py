@@ -54,27 +54,27 @@ class SourceStore:
         """Parsed stubs, shared by every check with the same stub folders."""
         return self._stubs.setdefault(tuple(str(folder) for folder in stub_dirs), {})
 
-    def module(self, path: str) -> _Parsed:
+    def module(self, path: str, options=None) -> _Parsed:
         key = os.path.abspath(path)
         text = self.documents.get(key)
         if text is not None:
-            signature = ("open", hash(text))
+            signature = ("open", hash(text), id(options))
         else:
             try:
                 status = os.stat(key)
-                signature = ("disk", status.st_mtime_ns, status.st_size)
+                signature = ("disk", status.st_mtime_ns, status.st_size, id(options))
             except OSError:
                 signature = None  # read_source below reports why
         cached = self._parsed.get(key)
         if cached is not None and signature is not None and cached.signature == signature \
                 and (text is None or cached.text == text):
             return cached
-        parsed = self._parse(key, text, signature)
+        parsed = self._parse(key, text, signature, options)
         if signature is not None:
             self._parsed[key] = parsed
         return parsed
 
-    def _parse(self, path: str, text: str | None, signature) -> _Parsed:
+    def _parse(self, path: str, text: str | None, signature, options=None) -> _Parsed:
         """What ``Project.load`` does for a file, for text that may come from memory."""
         self.parses += 1
         try:
@@ -88,7 +88,7 @@ class SourceStore:
         name, root, is_package = module_name_for(Path(path))
         comments = self._comment_units(text, tree) if signature and signature[0] == "open" \
             else trailing_comment_units(text)
-        symbols = ModuleSymbols(path, name, tree, text, comments, is_package=is_package)
+        symbols = ModuleSymbols(path, name, tree, text, comments, is_package=is_package, options=options)
         return _Parsed(signature, text, LoadedModule(collect_symbols(symbols), None, text), name, root)
 
 
@@ -130,8 +130,8 @@ class OverlayProject(Project):
     one state of the text. The expensive parts, parsed modules and stubs, live in the store.
     """
 
-    def __init__(self, stub_dirs, store: SourceStore):
-        super().__init__(stub_dirs)
+    def __init__(self, stub_dirs, store: SourceStore, options=None):
+        super().__init__(stub_dirs, options)
         self._store = store
         self._shared_stubs = store.stub_cache(stub_dirs)
 
@@ -148,7 +148,7 @@ class OverlayProject(Project):
         loaded = self._by_path.get(key)
         if loaded is not None:
             return loaded
-        parsed = self._store.module(key)
+        parsed = self._store.module(key, self.options)
         loaded = parsed.loaded
         self._by_path[key] = loaded
         if loaded.symbols is not None:
