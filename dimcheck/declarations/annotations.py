@@ -18,6 +18,7 @@ class UnitText:
 
     text: str
     node: ast.AST  # the string literal, for the location of a DIM901
+    quantity_type: bool = False  # Annotated[pint.Quantity, "m"]: the value is a pint quantity
 
 
 @dataclass(frozen=True, slots=True)
@@ -75,6 +76,9 @@ def read_annotation(node: ast.AST | None, _depth: int = 0) -> UnitText | AliasRe
             for item in elements[1:]:
                 found = _unit_in_metadata(item)
                 if found is not None:
+                    base = elements[0].value if isinstance(elements[0], ast.Subscript) else elements[0]
+                    if _name_of(base) == "Quantity":
+                        return UnitText(found.text, found.node, quantity_type=True)
                     return found
             return read_annotation(elements[0], _depth + 1) if elements else None
         if head in ("Optional", "Final", "ClassVar"):

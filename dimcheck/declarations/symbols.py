@@ -8,6 +8,7 @@ which knows the unit table and the other modules.
 from __future__ import annotations
 
 import ast
+import re
 from dataclasses import dataclass, field
 
 from .annotations import AliasRef, UnitText, read_annotation
@@ -36,6 +37,7 @@ class FunctionInfo:
     return_spec: UnitSpec
     owner: "ClassInfo | None" = None
     decorators: frozenset[str] = frozenset()
+    pint_wrapper: str | None = None  # "wraps" or "check": pint's decorators declare the units
 
     @property
     def is_static(self) -> bool:
@@ -98,6 +100,7 @@ class ModuleSymbols:
     name_specs: dict[str, UnitText | None] = field(default_factory=dict)
     # (docstring spec, explicit spec, where) pairs that must agree: DIM206 when they do not
     docstring_conflicts: list = field(default_factory=list)
+    pint_dynamic: bool | None = None  # defines pint units or contexts at run time (pint_support)
 
     _lines: list[str] | None = None
 
@@ -214,6 +217,8 @@ def make_function(module: ModuleSymbols, node, qualname: str, owner: ClassInfo |
         params=read_parameters(module, node), return_spec=returns, owner=owner,
         decorators=decorator_names(node),
     )
+    if not isinstance(node, ast.Lambda) and node.decorator_list:
+        _read_pint_decorators(info, node)
     options = module.options
     if options is not None and not module.is_stub and not isinstance(node, ast.Lambda):
         _add_docstring_units(module, info, options)
@@ -222,6 +227,59 @@ def make_function(module: ModuleSymbols, node, qualname: str, owner: ClassInfo |
                 if param.spec is None:
                     param.spec = name_spec(module, param.name, param.node.lineno, param.node.col_offset + 1)
     return info
+
+
+def _pint_unit_arguments(node: ast.AST) -> list[ast.AST | None] | None:
+    """The units of ``@ureg.wraps``/``@ureg.check``: a string, None, or a tuple of them."""
+    if isinstance(node, ast.Constant) and (node.value is None or isinstance(node.value, str)):
+        return [node]
+    if isinstance(node, (ast.Tuple, ast.List)) and all(
+            isinstance(item, ast.Constant) and (item.value is None or isinstance(item.value, str))
+            for item in node.elts):
+        return list(node.elts)
+    return None
+
+
+_PINT_VARIABLE = re.compile(r"[A-Za-z_]\w*")
+
+
+def _pint_unit_text(text: str) -> str:
+    """pint's ``"=A*B"`` (units tied to the arguments') in dimcheck's ``"$A*$B"`` notation."""
+    if text.startswith("="):
+        return _PINT_VARIABLE.sub(lambda match: "$" + match.group(), text[1:])
+    return text
+
+
+def _read_pint_decorators(info: FunctionInfo, node) -> None:
+    """pint's own declaration forms: ``@ureg.wraps(ret, args)`` gives the units the body
+    sees as plain numbers; ``@ureg.check("[length]", ...)`` the dimensions of the quantities
+    it receives. ``functools.wraps(f)`` and other ``.wraps`` are told apart by their arguments."""
+    for decorator in node.decorator_list:
+        if not (isinstance(decorator, ast.Call) and isinstance(decorator.func, ast.Attribute)):
+            continue
+        kind = decorator.func.attr
+        if kind == "wraps" and len(decorator.args) >= 2:
+            returned = _pint_unit_arguments(decorator.args[0])
+            taken = _pint_unit_arguments(decorator.args[1])
+            if returned is None or taken is None:
+                continue
+            _assign_pint_units(info, taken, quantity_type=False)
+            if len(returned) == 1 and returned[0].value is not None and info.return_spec is None:
+                info.return_spec = UnitText(_pint_unit_text(returned[0].value), returned[0])
+            info.pint_wrapper = "wraps"
+        elif kind == "check" and decorator.args and all(
+                isinstance(arg, ast.Constant) and (arg.value is None or
+                                                   (isinstance(arg.value, str) and arg.value.startswith("[")))
+                for arg in decorator.args):
+            _assign_pint_units(info, list(decorator.args), quantity_type=True)
+            info.pint_wrapper = "check"
+
+
+def _assign_pint_units(info: FunctionInfo, units: list, quantity_type: bool) -> None:
+    positional = [param for param in info.params if param.kind == "positional"]
+    for param, unit in zip(positional, units):
+        if unit is not None and unit.value is not None and param.spec is None:
+            param.spec = UnitText(_pint_unit_text(unit.value), unit, quantity_type=quantity_type)
 
 
 def _add_docstring_units(module: ModuleSymbols, info: FunctionInfo, options: DeclarationOptions) -> None:

@@ -25,10 +25,11 @@ from ..units import UnitError, parse_unit
 from ..units.dimension import DIMENSIONLESS
 from .evaluator import STAR, Located, ScopeEvaluator, merge_values
 from .generic import GenericSyntaxError, GenericUnit, parse_generic
+from .pint_support import PintSupport, is_pint_stub
 from .project import Project
 from .values import (
-    RECURSION, UNKNOWN, Bare, ClassValue, FunctionValue, InstanceValue, ModuleValue, Origin, Quantity,
-    TupleValue, Unknown,
+    RECURSION, UNKNOWN, Bare, ClassValue, FunctionValue, InstanceValue, ModuleValue, Origin,
+    PintFactoryValue, PintMethodValue, PintRegistryValue, Quantity, TupleValue, Unknown,
 )
 
 MAX_CALL_DEPTH = 6
@@ -101,6 +102,7 @@ class Engine:
         self._constructors: dict[int, FunctionInfo] = {}
         self._bases: dict[int, list[ClassInfo]] = {}
         self._importing: set[tuple] = set()
+        self.pint = PintSupport(self)
         self._inferred_attributes: dict[tuple, Any] = {}
 
     # == declarations ======================================================================
@@ -138,7 +140,8 @@ class Engine:
             self._declaration_problem(module, spec.node, str(error))
             return None
         scales = None if unit.scale is None else (unit.scale,)
-        return Quantity(unit.dimension, scales, text, origin=origin, offset=unit.is_offset)
+        return Quantity(unit.dimension, scales, text, origin=origin, offset=unit.is_offset,
+                        pint=spec.quantity_type)
 
     def _declaration_problem(self, module: ModuleSymbols, node: ast.AST, message: str) -> None:
         located = Located(Problem("DIM901", message), module.path, node.lineno, node.col_offset,
@@ -245,6 +248,8 @@ class Engine:
 
     # == attributes ========================================================================
     def attribute_value(self, owner: Any, attr: str, evaluator: ScopeEvaluator) -> Any:
+        if isinstance(owner, PintRegistryValue) or (isinstance(owner, Quantity) and owner.pint):
+            return self.pint.attribute(owner, attr, evaluator.module if evaluator is not None else None)
         if isinstance(owner, ModuleValue):
             requester = evaluator.module if evaluator is not None else None
             target = self.project.find_from(requester, owner.name)
@@ -418,6 +423,8 @@ class Engine:
 
     # == calls ===============================================================================
     def call(self, callee: Any, args: list, keywords: dict, node: ast.Call, evaluator: ScopeEvaluator) -> Any:
+        if isinstance(callee, (PintFactoryValue, PintRegistryValue, PintMethodValue)) or is_pint_stub(callee):
+            return self.pint.call(callee, args, keywords, node, evaluator)
         if isinstance(callee, FunctionValue):
             return self.call_function(callee, args, keywords, node, evaluator)
         if isinstance(callee, ClassValue):
@@ -453,6 +460,11 @@ class Engine:
             return special(evaluator, node, args, keywords)
         bound = bind_arguments(function, callee.bound_self, args, keywords)
         transcendental = "transcendental" in function.decorators
+        if module.is_stub and module.name == "math":
+            for problem, arg_node in self.pint.math_refuses(function, bound):
+                evaluator.report(arg_node, problem)
+        if function.pint_wrapper is not None:
+            self._pint_decorated_arguments(function, bound, evaluator)
         bindings: dict[str, Any] = {}
         generic_members: dict[str, list] = defaultdict(list)
         arguments: dict[str, Any] = {}
@@ -492,6 +504,8 @@ class Engine:
                                 param.name, function.name, expected, value, transcendental))
 
         returned = self.declared(module, function.return_spec)
+        if function.pint_wrapper == "wraps" and isinstance(returned, Quantity):
+            returned = returned.replace(pint=True, origin=None)  # the caller gets a quantity back
         if isinstance(returned, GenericUnit):
             result = returned.evaluate(bindings, self._lookup_unit)
             return result if result is not None else UNKNOWN
@@ -536,6 +550,19 @@ class Engine:
                 return UNKNOWN
             value = self.attribute_value(value, attr, None)
         return InstanceValue(value.info) if isinstance(value, ClassValue) else UNKNOWN
+
+    def _pint_decorated_arguments(self, function: FunctionInfo, bound: dict, evaluator) -> None:
+        """pint's ``@wraps`` (strict, the default) and ``@check`` refuse plain numbers for the
+        parameters they give a unit; a quantity of the wrong dimension is caught as usual."""
+        for param in function.params:
+            if param.spec is None:
+                continue
+            for value, arg_node in bound.get(param.name, []):
+                plain = isinstance(value, Bare) or (isinstance(value, Quantity) and not value.pint)
+                if plain and arg_node is not None:
+                    evaluator.report(arg_node, Problem(
+                        "DIM104", f"argument '{param.name}' of {function.name}() must be a pint quantity: "
+                                  f"pint's @{function.pint_wrapper} refuses a plain number"))
 
     def _lookup_unit(self, text: str) -> Quantity | None:
         try:

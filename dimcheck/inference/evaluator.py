@@ -62,9 +62,8 @@ def merge_values(a: Any, b: Any) -> Any:
     if isinstance(a, Quantity) and isinstance(b, Quantity):
         if a.dimension != b.dimension:
             return UNKNOWN
-        return a if a.scales == b.scales else Quantity(
-            a.dimension, intersect_scales(a.scales, b.scales), a.label, a.derived, a.origin, a.offset,
-            max(a.tolerance, b.tolerance))
+        return a if a.scales == b.scales else a.replace(
+            scales=intersect_scales(a.scales, b.scales), tolerance=max(a.tolerance, b.tolerance))
     if isinstance(a, Quantity) and isinstance(b, Bare) and b.is_zero:
         return a
     if isinstance(b, Quantity) and isinstance(a, Bare) and a.is_zero:
@@ -129,11 +128,13 @@ class ScopeEvaluator:
         self._seen: set[tuple] = set()
         self.returns: list[Any] = []
         self._block_depth = 0
+        self._expecting_error = 0  # inside `with pytest.raises(...)`: the code is meant to fail
+        self._stopped = False  # the rest of the block is not reached (return, raise, failing assert)
         self.is_module_scope = function is None and closure is None
 
     # -- reporting --------------------------------------------------------------------
     def report(self, node: ast.AST, problem: Problem | None, chain: tuple[str, ...] = ()) -> None:
-        if problem is None:
+        if problem is None or self._expecting_error:
             return
         located = Located(problem, self.module.path, node.lineno, node.col_offset,
                           getattr(node, "end_lineno", None) or node.lineno,
@@ -176,6 +177,8 @@ class ScopeEvaluator:
         try:
             for stmt in body:
                 self.statement(stmt)
+                if self._stopped:
+                    break
         finally:
             self._block_depth -= 1
 
@@ -282,21 +285,27 @@ class ScopeEvaluator:
 
     def _stmt_Return(self, node: ast.Return) -> None:
         value = self.expr(node.value) if node.value is not None else UNKNOWN
-        if self.function is not None and node.value is not None:
+        if self.function is not None and node.value is not None and self.function.pint_wrapper != "wraps":
+            # (under pint's @wraps the declared unit is attached to whatever number comes back)
             declared = self.declared_value(self.function.return_spec)
             if isinstance(declared, Quantity):
                 self.report(node.value, checks.check_binding(
                     f"return value of {self.function.name}()", declared, value))
         self.returns.append(value)
+        self._stopped = True
 
     def _branches(self, blocks: list[list[ast.stmt]]) -> None:
+        """Alternative blocks; only those that reach their end shape the names after them."""
         base = self.env
         results = []
         for block in blocks:
             self.env = dict(base)
+            self._stopped = False
             self.run(block)
-            results.append(self.env)
-        self.env = merge_envs(base, results)
+            if not self._stopped:
+                results.append(self.env)
+        self._stopped = not results
+        self.env = merge_envs(base, results) if results else base
 
     def _stmt_If(self, node: ast.If) -> None:
         self.expr(node.test)
@@ -307,6 +316,7 @@ class ScopeEvaluator:
         base = dict(self.env)
         self.bind(node.target, element_of(iterable), node.iter)
         self.run(node.body)
+        self._stopped = False
         after_body = self.env
         self.env = base
         self._branches([[], node.orelse])
@@ -317,11 +327,14 @@ class ScopeEvaluator:
     def _stmt_While(self, node: ast.While) -> None:
         self.expr(node.test)
         self._branches([node.body, node.orelse])
+        self._stopped = False
 
     def _stmt_Try(self, node) -> None:
         base = dict(self.env)
         self.run(node.body)
-        self.run(node.orelse)
+        if not self._stopped:
+            self.run(node.orelse)
+        self._stopped = False
         after = self.env
         branches = [after]
         for handler in node.handlers:
@@ -329,25 +342,49 @@ class ScopeEvaluator:
             if handler.type is not None:
                 self.expr(handler.type)
             self.run(handler.body)
+            self._stopped = False
             branches.append(self.env)
         self.env = merge_envs(base, branches)
         self.run(node.finalbody)
 
+    def _stmt_Raise(self, node: ast.Raise) -> None:
+        self._visit_children(node)
+        self._stopped = True
+
+    def _stmt_Assert(self, node: ast.Assert) -> None:
+        """``assert q.dimensionless`` on a quantity that has a dimension fails: what follows
+        is not reached for that quantity (a guard in a helper analysed per call)."""
+        value = self.expr(node.test)
+        if node.msg is not None:
+            self.expr(node.msg)
+        test = node.test
+        if isinstance(test, ast.Attribute) and test.attr == "dimensionless":
+            owner = self.expr(test.value)
+            if isinstance(owner, Quantity) and not owner.is_dimensionless:
+                self._stopped = True
+
     _stmt_TryStar = _stmt_Try
 
     def _stmt_With(self, node) -> None:
+        expects_error = False
         for item in node.items:
             value = self.expr(item.context_expr)
+            expects_error = expects_error or _expects_error(item.context_expr)
             if item.optional_vars is not None:
                 self.bind(item.optional_vars, UNKNOWN if not isinstance(value, Quantity) else value,
                           item.context_expr)
-        self.run(node.body)
+        self._expecting_error += expects_error
+        try:
+            self.run(node.body)
+        finally:
+            self._expecting_error -= expects_error
 
     _stmt_AsyncWith = _stmt_With
 
     def _stmt_Match(self, node) -> None:
         self.expr(node.subject)
         self._branches([case.body for case in node.cases] + [[]])
+        self._stopped = False
 
     def _stmt_Global(self, node: ast.Global) -> None:
         self.global_names.update(node.names)
@@ -455,8 +492,7 @@ class ScopeEvaluator:
                         or checks.check_offset_combination(verb, left, right))
             return self._sum_result(left, right, isinstance(op, ast.Sub))
         if isinstance(op, (ast.Mult, ast.Div, ast.FloorDiv, ast.MatMult)):
-            if isinstance(left, Quantity) and isinstance(right, Quantity):
-                self.report(node, checks.check_offset_product(left) or checks.check_offset_product(right))
+            self.report(node, checks.check_offset_product(left, right) or checks.check_offset_product(right, left))
             return self._product(left, right, divide=isinstance(op, (ast.Div, ast.FloorDiv)))
         if isinstance(op, ast.Pow):
             return self._power(node, left, right)
@@ -479,16 +515,21 @@ class ScopeEvaluator:
         if isinstance(left, Quantity) and isinstance(right, Quantity):
             if left.dimension != right.dimension:
                 return UNKNOWN
-            offset = left.offset and right.offset and not subtract
-            if left.offset == offset and left.scales == right.scales:
+            if left.pint or right.pint:
+                # pint: degC - degC is a difference, degC - K stays a degC temperature
+                offset = left.offset and not (subtract and right.offset)
+            else:
+                offset = left.offset and right.offset and not subtract
+            if left.offset == offset and left.scales == right.scales and left.pint == right.pint:
                 return left
-            return Quantity(left.dimension, intersect_scales(left.scales, right.scales), left.label,
-                            True, None, offset, max(left.tolerance, right.tolerance))
+            return left.replace(scales=intersect_scales(left.scales, right.scales), derived=True, origin=None,
+                                offset=offset, tolerance=max(left.tolerance, right.tolerance),
+                                pint=left.pint or right.pint)
         quantity, bare = (left, right) if isinstance(left, Quantity) else (right, left)
         if isinstance(quantity, Quantity) and isinstance(bare, Bare):
             if quantity.offset and not bare.is_zero:
                 # t_c + 273.15: most likely a conversion to kelvin; the zero is no longer known
-                return Quantity(quantity.dimension, quantity.scales, quantity.label, True)
+                return quantity.replace(derived=True, origin=None, offset=False)
             return quantity
         return UNKNOWN
 
@@ -497,16 +538,15 @@ class ScopeEvaluator:
         if isinstance(left, Quantity) and isinstance(right, Quantity):
             return quantity_product(left, right, divide)
         if isinstance(left, Quantity) and isinstance(right, Bare):
-            return Quantity(left.dimension, scale_by_bare(left.scales, right.value, divide), left.label,
-                            left.derived, None, left.offset, left.tolerance + literal_tolerance(right.value))
+            return left.replace(scales=scale_by_bare(left.scales, right.value, divide), origin=None,
+                                tolerance=left.tolerance + literal_tolerance(right.value))
         if isinstance(left, Bare) and isinstance(right, Quantity):
             tolerance = right.tolerance + literal_tolerance(left.value)
             if not divide:
-                return Quantity(right.dimension, scale_by_bare(right.scales, left.value, False),
-                                right.label, right.derived, None, right.offset, tolerance)
+                return right.replace(scales=scale_by_bare(right.scales, left.value, False), origin=None,
+                                     tolerance=tolerance)
             inverse = quantity_product(_ONE, right, divide=True)
-            return Quantity(inverse.dimension, scale_by_bare(inverse.scales, left.value, False),
-                            inverse.label, True, None, False, tolerance)
+            return inverse.replace(scales=scale_by_bare(inverse.scales, left.value, False), tolerance=tolerance)
         if isinstance(left, Bare) and isinstance(right, Bare):
             try:
                 if divide:
@@ -524,7 +564,7 @@ class ScopeEvaluator:
             constant = exponent.const
         self.report(node, checks.check_exponent(base, exponent, constant is not None)
                     or checks.check_power_law(base, exponent)
-                    or (checks.check_offset_product(base) if constant != 1 else None))
+                    or (checks.check_offset_product(base, exponent, power=True) if constant != 1 else None))
         if isinstance(base, Bare) and isinstance(exponent, Bare):
             try:
                 result = base.value ** exponent.value
@@ -534,8 +574,7 @@ class ScopeEvaluator:
         if not isinstance(base, Quantity):
             return UNKNOWN
         if base.is_dimensionless and isinstance(exponent, (Quantity, Bare, Unknown)):
-            return Quantity(base.dimension, None if constant is None else base.scales, base.label, True,
-                            tolerance=base.tolerance)
+            return base.replace(scales=None if constant is None else base.scales, derived=True, origin=None)
         if constant is None or not isinstance(constant, (int, float)):
             return UNKNOWN
         fraction = exact_exponent(constant)
@@ -556,7 +595,8 @@ class ScopeEvaluator:
         for op, comparator in zip(node.ops, node.comparators):
             right = self.expr(comparator)
             if not isinstance(op, _COMPARISON_SKIP):
-                self.report(node, checks.check_combination("compare", left, right))
+                verb = "equal" if isinstance(op, (ast.Eq, ast.NotEq)) else "compare"
+                self.report(node, checks.check_combination(verb, left, right))
             left = right
         return UNKNOWN
 
@@ -649,6 +689,18 @@ class ScopeEvaluator:
             value = self.expr(keyword.value)
             keywords[keyword.arg if keyword.arg is not None else _STAR] = (value, keyword.value)
         return self.engine.call(callee, args, keywords, node, self)
+
+
+_RAISES = frozenset({"raises", "assertRaises", "assertRaisesRegex", "assertRaisesRegexp"})
+
+
+def _expects_error(node: ast.AST) -> bool:
+    """``pytest.raises(...)``, ``self.assertRaises(...)``: a test that the code fails."""
+    if not isinstance(node, ast.Call):
+        return False
+    func = node.func
+    name = func.attr if isinstance(func, ast.Attribute) else getattr(func, "id", None)
+    return name in _RAISES
 
 
 class _Star:

@@ -143,4 +143,4 @@ def _raise(base, exponent: Fraction):
 def raise_quantity(value: Quantity, exponent: Fraction) -> Quantity:
     return Quantity(value.dimension ** exponent, power_scales(value.scales, float(exponent)),
                     power_label(value.display_unit(), exponent), derived=True,
-                    tolerance=value.tolerance * abs(float(exponent)))
+                    tolerance=value.tolerance * abs(float(exponent)), pint=value.pint)

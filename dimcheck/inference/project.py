@@ -268,8 +268,8 @@ class Project:
         return self._reaches_marked(("module", module))
 
     def _marked(self, module: ModuleSymbols) -> bool:
-        if module.is_stub:
-            return stub_has_units(module)
+        if module.is_stub:  # pint's objects carry units at run time (inference/pint_support.py)
+            return stub_has_units(module) or _is_pint(module)
         return _has_scaled_comment_unit(module) or _MARKERS.search(module.source) is not None
 
     def _reaches_marked(self, start: tuple) -> bool:
@@ -312,7 +312,7 @@ class Project:
         _, module, name = node
         if module.is_stub:
             spec = module.globals_declared.get(name)
-            if spec is not None and not _plain_dimensionless_spec(spec[0]):
+            if (spec is not None and not _plain_dimensionless_spec(spec[0])) or _is_pint(module):
                 yield _UNIT_BEARING
             return
         defined_here = name in module.functions or name in module.classes or name in module.globals_declared
@@ -357,6 +357,11 @@ def _node_key(node: tuple) -> tuple:
 
 
 _DIMENSIONLESS_SPELLINGS = {"1", "", "-", "dimensionless", "rad", "radian", "deg", "degree"}
+
+
+def _is_pint(module: ModuleSymbols) -> bool:
+    """pint's objects carry units at run time, so anything imported from pint may."""
+    return module.name.split(".")[0] == "pint"
 
 
 def _plain_dimensionless_spec(spec) -> bool:

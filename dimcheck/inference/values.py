@@ -76,11 +76,11 @@ class Quantity:
     ``None`` means the scale is open (a dimension-only declaration).
     """
 
-    __slots__ = ("dimension", "scales", "label", "derived", "origin", "offset", "tolerance")
+    __slots__ = ("dimension", "scales", "label", "derived", "origin", "offset", "tolerance", "pint")
 
     def __init__(self, dimension: Dimension, scales: tuple[float, ...] | None, label: str,
                  derived: bool = False, origin: Origin | None = None, offset: bool = False,
-                 tolerance: float = 0.0):
+                 tolerance: float = 0.0, pint: bool = False):
         self.dimension = dimension
         self.scales = scales
         self.label = label
@@ -90,6 +90,9 @@ class Quantity:
         # relative uncertainty of the scale beyond SCALE_TOLERANCE: a conversion typed as
         # a rounded published factor (6894.757 for psi) is only as exact as its digits
         self.tolerance = tolerance
+        # a pint quantity at run time: pint converts scales itself and refuses some
+        # operations a plain float allows (contract, section 8)
+        self.pint = pint
 
     def __repr__(self) -> str:
         return f"Quantity({self.describe()}, scales={self.scales})"
@@ -109,7 +112,12 @@ class Quantity:
         return f"{self.display_unit()} [{self.dimension.format()}]"
 
     def with_label(self, label: str) -> "Quantity":
-        return Quantity(self.dimension, self.scales, label, True, None, self.offset, self.tolerance)
+        return Quantity(self.dimension, self.scales, label, True, None, self.offset, self.tolerance, self.pint)
+
+    def replace(self, **changes) -> "Quantity":
+        fields = {name: getattr(self, name) for name in self.__slots__}
+        fields.update(changes)
+        return Quantity(**fields)
 
 
 @dataclass(slots=True)
@@ -132,6 +140,24 @@ class ClassValue:
 @dataclass(slots=True)
 class InstanceValue:
     info: "ClassInfo"
+
+
+@dataclass(slots=True)
+class PintRegistryValue:
+    """A pint ``UnitRegistry`` (``ureg``): its attributes are units, calling it parses."""
+
+
+@dataclass(slots=True)
+class PintFactoryValue:
+    """``ureg.Quantity``, ``Q_``, ``pint.Quantity``: calling it builds a quantity."""
+
+
+@dataclass(slots=True)
+class PintMethodValue:
+    """A method of a pint quantity (``q.to``, ``q.m_as``...), bound to the quantity."""
+
+    owner: Any
+    name: str
 
 
 @dataclass(slots=True)
@@ -229,7 +255,8 @@ def quantity_product(left: Quantity, right: Quantity, divide: bool) -> Quantity:
     dimension = left.dimension / right.dimension if divide else left.dimension * right.dimension
     scales = divide_scales(left.scales, right.scales) if divide else multiply_scales(left.scales, right.scales)
     label = compose_label(left.display_unit(), "/" if divide else "*", right.display_unit())
-    return Quantity(dimension, scales, label, derived=True, tolerance=left.tolerance + right.tolerance)
+    return Quantity(dimension, scales, label, derived=True, tolerance=left.tolerance + right.tolerance,
+                    pint=left.pint or right.pint)
 
 
 def same_quantity_kind(a: Any, b: Any) -> bool:

@@ -82,6 +82,7 @@ _SUM_VERBS = {
     "add": "cannot add {right} to {left}",
     "subtract": "cannot subtract {right} from {left}",
     "compare": "cannot compare {left} with {right}",
+    "equal": "cannot compare {left} with {right}",
 }
 
 
@@ -91,11 +92,16 @@ def check_combination(verb: str, left, right) -> Problem | None:
     ``verb`` is ``add``, ``subtract``, ``compare`` or a phrase such as
     ``members of max()`` used for the other combinations.
     """
+    pint = _is_pint(left) or _is_pint(right)
+    if pint:
+        found = _pint_combination(verb, left, right)
+        if found is not None or verb == "equal":
+            return found
     if isinstance(left, Quantity) and isinstance(right, Quantity):
         if left.dimension != right.dimension:
             template = _SUM_VERBS.get(verb, verb + " disagree: {left} and {right}")
             return Problem("DIM101", template.format(left=described(left), right=described(right)))
-        if not quantities_share_scale(left, right):
+        if not pint and not quantities_share_scale(left, right):
             return Problem("DIM201", f"{verb}: {left.display_unit()} and {right.display_unit()} "
                                      f"have the same dimension [{left.dimension.format()}] but different "
                                      f"scales; {_scale_hint(right, left)} to bring the "
@@ -103,6 +109,8 @@ def check_combination(verb: str, left, right) -> Problem | None:
         return None
     quantity, bare = (left, right) if isinstance(left, Quantity) else (right, left)
     if isinstance(quantity, Quantity) and isinstance(bare, Bare):
+        if verb == "equal" and quantity.origin is not None and quantity.origin.kind == "magnitude":
+            return None  # q.to("t").magnitude == 0.123: checking a magnitude against a number
         if not bare.is_zero and not quantity.is_dimensionless:
             action = "compared with" if verb == "compare" else "combined with"
             return Problem("DIM203", f"bare number {_number(bare.value)} {action} "
@@ -124,6 +132,8 @@ def check_binding(what: str, declared: Quantity, value) -> Problem | None:
     offset = check_offset_binding(what, declared, value)
     if offset is not None:
         return offset
+    if value.pint:
+        return None  # pint converts between scales itself
     if not quantities_share_scale(value, declared):
         return Problem("DIM201", f"{what} is declared {declared.display_unit()} but the value is in "
                                  f"{value.display_unit()} (same dimension [{declared.dimension.format()}]); "
@@ -145,7 +155,7 @@ def check_argument(param: str, function: str, declared: Quantity, value,
     offset = check_offset_binding(f"argument '{param}' of {function}()", declared, value)
     if offset is not None:
         return offset
-    if quantities_share_scale(value, declared):
+    if value.pint or quantities_share_scale(value, declared):
         return None
     if _is_degree_to_radian(value, declared):
         return Problem("DIM202", f"value in {value.display_unit()} reaches {function}(), which expects "
@@ -157,8 +167,39 @@ def check_argument(param: str, function: str, declared: Quantity, value,
                              f"[{declared.dimension.format()}]); {_scale_hint(value, declared)}")
 
 
+def _is_pint(value) -> bool:
+    return isinstance(value, Quantity) and value.pint
+
+
+def _pint_combination(verb: str, left, right) -> Problem | None:
+    """What pint itself refuses at run time in a sum or comparison (contract, section 8)."""
+    if verb == "equal":
+        return None  # == and != never raise in pint: they answer False/True
+    quantity, other = (left, right) if _is_pint(left) else (right, left)
+    if isinstance(other, Bare) and not other.is_zero:
+        if quantity.offset:
+            return Problem("DIM107", f"pint refuses to combine an absolute {quantity.display_unit()} "
+                                     f"temperature with the plain number {_number(other.value)}")
+        if not quantity.is_dimensionless:
+            return Problem("DIM101", f"pint refuses to {'compare' if verb == 'compare' else 'add'} the "
+                                     f"plain number {_number(other.value)} and {described(quantity)}; "
+                                     f"give the number a unit")
+    if isinstance(left, Quantity) and isinstance(right, Quantity) and left.dimension == right.dimension:
+        if verb == "add" and (left.offset or right.offset):
+            both = "two absolute temperatures" if left.offset and right.offset else \
+                "an absolute temperature and a kelvin value"
+            return Problem("DIM107", f"pint refuses to add {both} ({left.display_unit()} and "
+                                     f"{right.display_unit()}); use a delta unit or convert to K")
+        if verb == "subtract" and right.offset and not left.offset:
+            return Problem("DIM107", f"pint refuses to subtract an absolute {right.display_unit()} "
+                                     f"temperature from {left.display_unit()}")
+    return None
+
+
 def check_offset_combination(verb: str, left, right) -> Problem | None:
     """Two absolute temperatures on an offset scale added (DIM204); pint refuses it too."""
+    if _is_pint(left) or _is_pint(right):
+        return None  # judged by _pint_combination
     if (verb == "add" and isinstance(left, Quantity) and isinstance(right, Quantity)
             and left.offset and right.offset):
         return Problem("DIM204", f"adding two absolute temperatures ({left.display_unit()} and "
@@ -167,10 +208,14 @@ def check_offset_combination(verb: str, left, right) -> Problem | None:
     return None
 
 
-def check_offset_product(operand) -> Problem | None:
+def check_offset_product(operand, other=None, power: bool = False) -> Problem | None:
     """An absolute temperature on an offset scale (degC, degF) in a product, quotient or
-    power (DIM204): its zero is not zero, so the result depends on the scale."""
-    if isinstance(operand, Quantity) and operand.offset:
+    power (DIM204): its zero is not zero, so the result depends on the scale. For a pint
+    quantity this is an error (DIM107): pint refuses it, even with a plain number."""
+    if _is_pint(operand) and operand.offset and other is not None:
+        return Problem("DIM107", f"pint refuses to multiply, divide or raise an absolute "
+                                 f"{operand.display_unit()} temperature; convert it to K first")
+    if isinstance(operand, Quantity) and operand.offset and (power or isinstance(other, Quantity)):
         return Problem("DIM204", f"absolute temperature in {operand.display_unit()} used in a "
                                  f"product, quotient or power; convert it to K first "
                                  f"(add 273.15 for degC)")
