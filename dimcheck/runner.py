@@ -82,12 +82,51 @@ class Checker:
     def new_project(self) -> Project:
         return Project(self.config.stubs, self.options)
 
-    def check_files(self, files: list[str]) -> list[Finding]:
+    def check_files(self, files: list[str], jobs: int = 1) -> list[Finding]:
+        """Findings of the files, sorted. Files whose cached result still holds are not read;
+        the rest are checked here or, with ``jobs`` > 1 and enough of them, in worker
+        processes (each with its own view of the project), with the same result."""
+        cache = self._open_cache()
+        raw_by_path: dict[str, list] = {}
+        pending = []
+        for path in files:
+            cached = cache.lookup(path) if cache is not None else None
+            if cached is None:
+                pending.append(path)
+            else:
+                raw_by_path[path] = cached
+        dependencies: dict[str, set[str]] = {}
+        for path, raw in self._compute(pending, jobs, dependencies):
+            raw_by_path[path] = raw
+        if cache is not None and pending:
+            for path in pending:
+                cache.store(path, raw_by_path[path])
+            cache.record_graph(dependencies, pending)
+            cache.save()
+        findings = [Finding(display_path(path), *fields)
+                    for path in files for fields in raw_by_path[path] if fields[4] in self.codes]
+        findings.sort(key=Finding.sort_key)
+        return findings
+
+    def _compute(self, paths: list[str], jobs: int, dependencies: dict) -> list[tuple[str, list]]:
+        chunks = split_work(paths, jobs)
+        if len(chunks) <= 1:
+            return self.compute_chunk(paths, dependencies)
+        import multiprocessing
+
+        context = multiprocessing.get_context("fork" if "fork" in multiprocessing.get_all_start_methods()
+                                              else "spawn")
+        with context.Pool(len(chunks), initializer=_worker_start, initargs=(self.config,)) as pool:
+            results = []
+            for chunk_results, chunk_dependencies in pool.imap(_worker_check, chunks):
+                results.extend(chunk_results)
+                for module, used in chunk_dependencies.items():
+                    dependencies.setdefault(module, set()).update(used)
+        return results
+
+    def compute_chunk(self, paths: list[str], dependencies: dict) -> list[tuple[str, list]]:
         project = self.new_project()
         engine = Engine(project, self.table)
-        cache = self._open_cache()
-        findings: list[Finding] = []
-        computed: list[str] = []
         old_limit = sys.getrecursionlimit()
         sys.setrecursionlimit(max(old_limit, 10000))
         # Syntax trees make millions of objects and no reference cycles worth collecting:
@@ -95,24 +134,14 @@ class Checker:
         gc_was_enabled = gc.isenabled()
         gc.disable()
         try:
-            for path in files:
-                shown = display_path(path)
-                raw = cache.lookup(path) if cache is not None else None
-                if raw is None:
-                    raw = self._file_findings(project, engine, path)
-                    if cache is not None:
-                        cache.store(path, raw)
-                        computed.append(path)
-                findings.extend(Finding(shown, *fields) for fields in raw if fields[4] in self.codes)
-            if cache is not None:
-                cache.record_graph(project.dependencies, computed)
-                cache.save()
+            results = [(path, self._file_findings(project, engine, path)) for path in paths]
         finally:
             sys.setrecursionlimit(old_limit)
             if gc_was_enabled:
                 gc.enable()
-        findings.sort(key=Finding.sort_key)
-        return findings
+        for module, used in project.dependencies.items():
+            dependencies.setdefault(module, set()).update(used)
+        return results
 
     @staticmethod
     def _file_findings(project: Project, engine: Engine, path: str) -> list[list]:
@@ -137,6 +166,47 @@ class Checker:
                 results.append([line, finding.column, end_line, finding.end_column,
                                 finding.code, finding.message, cell])
         return results
+
+
+MIN_FILES_PER_JOB = 25  # below this, starting workers costs more than it saves
+
+
+def split_work(paths: list[str], jobs: int) -> list[list[str]]:
+    """Contiguous runs of the (sorted) file list with about equal bytes each: files of one
+    package stay together, so each worker reads the modules they share only once."""
+    jobs = min(max(jobs, 1), max(len(paths) // MIN_FILES_PER_JOB, 1))
+    if jobs <= 1:
+        return [paths] if paths else []
+    sizes = []
+    for path in paths:
+        try:
+            sizes.append(max(os.path.getsize(path), 1))
+        except OSError:
+            sizes.append(1)
+    share = sum(sizes) / jobs
+    chunks, current, filled = [], [], 0.0
+    for path, size in zip(paths, sizes):
+        current.append(path)
+        filled += size
+        if filled >= share and len(chunks) < jobs - 1:
+            chunks.append(current)
+            current, filled = [], 0.0
+    if current:
+        chunks.append(current)
+    return chunks
+
+
+_WORKER: "Checker | None" = None
+
+
+def _worker_start(config: Config) -> None:
+    global _WORKER
+    _WORKER = Checker(config)
+
+
+def _worker_check(paths: list[str]):
+    dependencies: dict[str, set[str]] = {}
+    return _WORKER.compute_chunk(paths, dependencies), dependencies
 
 
 def declaration_options(config: Config, table) -> DeclarationOptions:
@@ -165,9 +235,9 @@ def declaration_options(config: Config, table) -> DeclarationOptions:
 
 
 def check_paths(paths: list[str], config: Config | None = None, select: list[str] | None = None,
-                ignore: list[str] | None = None, use_cache: bool = False) -> Report:
+                ignore: list[str] | None = None, use_cache: bool = False, jobs: int = 1) -> Report:
     config = config or Config()
     base = str(config.base_dir) if config.source is not None else None
     files, errors = discover(paths, config.exclude, base)
     checker = Checker(config, select, ignore, use_cache=use_cache)
-    return Report(len(files), checker.check_files(files), errors)
+    return Report(len(files), checker.check_files(files, jobs), errors)

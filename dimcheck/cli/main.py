@@ -83,7 +83,8 @@ def _run_check(args) -> int:
         except baseline.BaselineError as error:
             raise UsageError(str(error)) from None
     paths = args.paths or config.paths or ["."]
-    report = check_paths(paths, config, select, ignore, use_cache=not args.no_cache)
+    jobs = args.jobs or os.cpu_count() or 1
+    report = check_paths(paths, config, select, ignore, use_cache=not args.no_cache, jobs=jobs)
     for error in report.errors:
         print(f"dimcheck: error: {error}", file=sys.stderr)
     if args.write_baseline is not None:

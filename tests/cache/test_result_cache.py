@@ -96,3 +96,20 @@ def test_killed_or_concurrent_runs_leave_a_usable_cache(tree):
     assert check(tree) == []
     (tree / "use.py").write_text(USE)
     assert check(tree) == [("use.py", 3, "DIM101")]
+
+
+def test_parallel_jobs_give_the_same_report_in_the_same_order(tmp_path):
+    # 60 modules in 3 packages, enough for two workers; every fifth has a bug.
+    for package in ("alpha", "beta", "gamma"):
+        (tmp_path / package).mkdir()
+        (tmp_path / package / "__init__.py").write_text("")
+        (tmp_path / package / "units.py").write_text(UNITS)
+        for index in range(20):
+            body = USE if index % 5 == 0 else USE.replace("h + t", "h / t")
+            (tmp_path / package / f"m{index:02d}.py").write_text(body.replace("from units", "from .units"))
+    one = subprocess.run([sys.executable, "-m", "dimcheck", "check", ".", "--jobs", "1", "--no-cache"],
+                         cwd=tmp_path, capture_output=True, text=True, timeout=300)
+    two = subprocess.run([sys.executable, "-m", "dimcheck", "check", ".", "--jobs", "2", "--no-cache"],
+                         cwd=tmp_path, capture_output=True, text=True, timeout=300)
+    assert one.returncode == two.returncode == 1
+    assert one.stdout == two.stdout and one.stdout.count("DIM101") == 12
