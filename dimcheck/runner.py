@@ -6,6 +6,7 @@ This is the one place the pipeline is put together; the command line, the API in
 
 from __future__ import annotations
 
+import dataclasses
 import gc
 import os
 import sys
@@ -21,7 +22,7 @@ from .inference.evaluator import Located
 from .inference.project import Project
 from .rules.finding import Finding
 from .rules.registry import RULES, SEVERITY_RANK
-from .units import load_unit_table
+from .units import UnitError, load_unit_table
 
 
 @dataclass
@@ -65,7 +66,11 @@ class Checker:
         chosen = select if select is not None else self.config.select
         self.codes = set(chosen or RULES)
         self.codes -= set(ignore if ignore is not None else self.config.ignore)
-        self.table = load_unit_table(self.config.units, self.config.base_dimensions)
+        try:
+            self.table = load_unit_table(self.config.units, self.config.base_dimensions)
+        except UnitError as error:  # a definition file pint cannot read
+            where = f"{self.config.source}: [tool.dimcheck] units" if self.config.source else "units"
+            raise ConfigError(f"{where}: {error}") from None
         self.use_cache = use_cache
         self.options = declaration_options(self.config, self.table)
 
@@ -125,10 +130,10 @@ class Checker:
         return results
 
     def compute_chunk(self, paths: list[str], dependencies: dict) -> list[tuple[str, list]]:
-        project = self.new_project()
-        engine = Engine(project, self.table)
         old_limit = sys.getrecursionlimit()
         sys.setrecursionlimit(max(old_limit, 10000))
+        project = self.new_project()
+        engine = Engine(project, self.table)  # sizes its nesting budget from the limit above
         # Syntax trees make millions of objects and no reference cycles worth collecting:
         # with the cyclic collector on, parsing a large tree takes several times longer.
         gc_was_enabled = gc.isenabled()
@@ -158,6 +163,9 @@ class Checker:
         for located in engine.check_module(module):
             if not is_suppressed(located.problem.code, module.line_text(located.line)):
                 finding = _finding(located, "")
+                column = _character_column(module.line_text(finding.line), finding.column)
+                end_column = _character_column(module.line_text(finding.end_line), finding.end_column)
+                finding = dataclasses.replace(finding, column=column, end_column=end_column)
                 line, end_line, cell = finding.line, finding.end_line, None
                 if loaded.notebook is not None:  # lines are counted within the finding's cell
                     cell, line = loaded.notebook.locate(finding.line)
@@ -169,6 +177,13 @@ class Checker:
 
 
 MIN_FILES_PER_JOB = 25  # below this, starting workers costs more than it saves
+
+
+def _character_column(line_text: str, byte_column: int) -> int:
+    """The syntax tree counts columns in UTF-8 bytes; reports count characters (1-based)."""
+    if line_text.isascii():
+        return byte_column
+    return len(line_text.encode("utf-8")[: byte_column - 1].decode("utf-8", errors="ignore")) + 1
 
 
 def split_work(paths: list[str], jobs: int) -> list[list[str]]:

@@ -33,6 +33,19 @@ def register(commands) -> None:
                           help="exit 1 when the total share of known expressions is below PERCENT")
     coverage.add_argument("--config", metavar="FILE")
 
+    listing = commands.add_parser(
+        "declarations", help="list every declared unit and where it came from",
+        description="List the units declared in the code (annotations, comments, docstrings, name "
+                    "patterns) with their source: the adoption report for docstring and name units.")
+    listing.add_argument("paths", nargs="*", metavar="PATH")
+    listing.add_argument("--format", choices=("text", "json"), default="text")
+    listing.add_argument("--sources", metavar="KINDS",
+                         help="only these sources, comma-separated: annotation, comment, docstring, name")
+    listing.add_argument("--assume-on", action="store_true",
+                         help="read docstrings and the shipped name suffixes even where the configuration "
+                              "has them off, to see what turning them on would declare")
+    listing.add_argument("--config", metavar="FILE")
+
 
 def run_explain(args) -> int:
     from ..analysis.explain import ExplainError, explain, parse_target
@@ -70,3 +83,36 @@ def run_coverage(args) -> int:
     if args.fail_under is not None and total.expression_share < args.fail_under:
         return EXIT_BELOW
     return EXIT_OK
+
+
+_SOURCES = {"annotation", "comment", "docstring", "name"}
+
+
+def run_declarations(args) -> int:
+    from ..analysis.declarations_report import collect
+
+    wanted = None
+    if args.sources:
+        wanted = {part.strip() for part in args.sources.split(",") if part.strip()}
+        unknown = wanted - _SOURCES
+        if unknown:
+            raise CommandError(f"--sources: unknown source {sorted(unknown)[0]!r} "
+                               f"(known: {', '.join(sorted(_SOURCES))})")
+    config = load_config(args.config)
+    found, errors = collect(args.paths or config.paths or ["."], config, args.assume_on)
+    if wanted is not None:
+        found = [item for item in found if item.source in wanted]
+    if args.format == "json":
+        print(json.dumps({"declarations": [item.as_dict() for item in found], "errors": errors}, indent=2))
+    else:
+        for item in found:
+            print(f"{item.path}:{item.line}: {item.owner} {item.name} [{item.unit}] "
+                  f"({item.dimension}) from {item.source}")
+        counts: dict[str, int] = {}
+        for item in found:
+            counts[item.source] = counts.get(item.source, 0) + 1
+        summary = ", ".join(f"{count} from {source}" for source, count in sorted(counts.items()))
+        print(f"{len(found)} declarations" + (f": {summary}" if summary else ""))
+        for error in errors:
+            print(f"dimcheck: {error}", file=sys.stderr)
+    return EXIT_TROUBLE if errors else EXIT_OK

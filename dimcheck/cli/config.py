@@ -55,8 +55,10 @@ def find_config(start: Path) -> Path | None:
         if candidate.is_file():
             try:
                 data = tomllib.loads(candidate.read_text(encoding="utf-8"))
-            except (OSError, UnicodeDecodeError, tomllib.TOMLDecodeError):
-                continue
+            except (OSError, UnicodeDecodeError) as error:
+                raise ConfigError(f"{candidate}: cannot read: {error}") from None
+            except tomllib.TOMLDecodeError as error:
+                raise ConfigError(f"{candidate}: invalid TOML: {error}") from None
             if isinstance(data.get("tool"), dict) and "dimcheck" in data["tool"]:
                 return candidate
     return None
@@ -96,6 +98,8 @@ def _where(path: Path, key: str) -> str:
 
 
 def parse_codes(values: list[str], where: str) -> list[str]:
+    if not values:
+        raise ConfigError(f"{where}: no rule code given")
     codes: list[str] = []
     for value in values:
         found = matching_codes(value)

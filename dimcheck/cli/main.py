@@ -133,6 +133,8 @@ def main(argv: list[str] | None = None) -> int:
             return analysis_commands.run_explain(args)
         if args.command == "coverage":
             return analysis_commands.run_coverage(args)
+        if args.command == "declarations":
+            return analysis_commands.run_declarations(args)
         if args.command == "serve":
             return serve_command.run(args)
         if args.command == "annotate":

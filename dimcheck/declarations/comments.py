@@ -64,6 +64,7 @@ def trailing_comment_units(source: str) -> dict[int, CommentUnit]:
     """
     if not _CANDIDATE_LINE.search(source) or not _has_candidate(source):
         return {}
+    source = source.replace("\r\n", "\n").replace("\r", "\n")  # lone \r ends a line too
     found: dict[int, CommentUnit] = {}
     code_on_line: set[int] = set()
     try:

@@ -101,12 +101,14 @@ class ModuleSymbols:
     # (docstring spec, explicit spec, where) pairs that must agree: DIM206 when they do not
     docstring_conflicts: list = field(default_factory=list)
     pint_dynamic: bool | None = None  # defines pint units or contexts at run time (pint_support)
+    # a docstring or a name pattern declares something here (the fast path must not skip it)
+    declares_from_text: bool = False
 
     _lines: list[str] | None = None
 
     def line_text(self, line: int) -> str:
-        if self._lines is None:
-            self._lines = self.source.splitlines()
+        if self._lines is None:  # the line breaks Python counts: not form feeds or U+2028
+            self._lines = re.split(r"\r\n|\r|\n", self.source)
         if 1 <= line <= len(self._lines):
             return self._lines[line - 1]
         return ""
@@ -282,6 +284,17 @@ def _assign_pint_units(info: FunctionInfo, units: list, quantity_type: bool) -> 
             param.spec = UnitText(_pint_unit_text(unit.value), unit, quantity_type=quantity_type)
 
 
+def _returns_tuple(node) -> bool:
+    stack = list(node.body)
+    while stack:
+        item = stack.pop()
+        if isinstance(item, ast.Return) and isinstance(item.value, ast.Tuple):
+            return True
+        if not isinstance(item, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef, ast.Lambda)):
+            stack.extend(child for child in ast.iter_child_nodes(item) if isinstance(child, ast.stmt))
+    return False
+
+
 def _add_docstring_units(module: ModuleSymbols, info: FunctionInfo, options: DeclarationOptions) -> None:
     """Parameter and return units from the docstring: they fill in what has no explicit
     declaration, and must agree with what has one."""
@@ -299,7 +312,10 @@ def _add_docstring_units(module: ModuleSymbols, info: FunctionInfo, options: Dec
         line = literal.lineno + found.line - 1
         column = found.column + (literal.col_offset + 3 if found.line == 1 else 0)
         spec = UnitText(found.text, DeclarationSite(line, column, len(found.text), "docstring", found.name))
+        module.declares_from_text = True
         if found.name == "return":
+            if _returns_tuple(info.node):
+                continue  # the unit documents the first of several returned values
             if info.return_spec is None:
                 info.return_spec = spec
             else:
@@ -405,8 +421,19 @@ def record_import(imports: dict[str, ImportRef], stmt: ast.Import | ast.ImportFr
             imports[alias.asname or alias.name] = ImportRef(stmt.module or "", alias.name, stmt.level)
 
 
+_IDENTIFIER = re.compile(r"[A-Za-z_][A-Za-z0-9_]*")
+
+
+def _names_declare_units(module: ModuleSymbols) -> bool:
+    """Whether any identifier in the source gets a unit from a name pattern."""
+    names = module.options.names
+    return any(names.unit_for(word) is not None for word in set(_IDENTIFIER.findall(module.source)))
+
+
 def collect_symbols(module: ModuleSymbols) -> ModuleSymbols:
     """Fill in the module's functions, classes, aliases, declared globals and imports."""
+    if module.options is not None and module.options.names is not None and not module.is_stub:
+        module.declares_from_text = _names_declare_units(module)
     for stmt in _top_level_statements(module.tree.body):
         if isinstance(stmt, (ast.FunctionDef, ast.AsyncFunctionDef)):
             info = make_function(module, stmt, stmt.name, None)

@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import ast
 import os
+import sys
 from collections import defaultdict
 from dataclasses import dataclass, field
 from typing import Any
@@ -23,7 +24,7 @@ from ..rules import checks
 from ..rules.checks import Problem
 from ..units import UnitError, parse_unit
 from ..units.dimension import DIMENSIONLESS
-from .evaluator import STAR, Located, ScopeEvaluator, merge_values
+from .evaluator import MAX_EXPRESSION_DEPTH, STAR, Located, ScopeEvaluator, merge_values
 from .generic import GenericSyntaxError, GenericUnit, parse_generic
 from .pint_support import PintSupport, is_pint_stub
 from .project import Project
@@ -86,6 +87,8 @@ class Engine:
         self.project = project
         self.table = table
         self.depth = 0  # expression nesting across all evaluators, for the recursion budget
+        # about three interpreter frames per level of nesting, with room for the rest
+        self.depth_budget = min(MAX_EXPRESSION_DEPTH, max(50, (sys.getrecursionlimit() - 300) // 4))
         # called as observer(module, node, value) for every expression evaluated once with
         # declared inputs (not the per-call-site re-analyses); used by explain and coverage
         self.observer = None

@@ -31,8 +31,10 @@ if TYPE_CHECKING:
     from .engine import Engine
     from ..declarations.symbols import ModuleSymbols
 
-MAX_EXPRESSION_DEPTH = 180
-MAX_BLOCK_DEPTH = 90
+# Nesting budgets: deeper code is left unknown rather than risk the interpreter's stack.
+# The expression budget shrinks with a low recursion limit (see ScopeEvaluator.expr).
+MAX_EXPRESSION_DEPTH = 1000
+MAX_BLOCK_DEPTH = 200
 
 
 @dataclass(frozen=True, slots=True)
@@ -103,6 +105,12 @@ def element_of(value: Any) -> Any:
             result = merge_values(result, item)
         return result
     return UNKNOWN
+
+
+def _as_factor(value: Any) -> Any:
+    if isinstance(value, Unknown) and value.const is not None and isinstance(value.const, (int, float)):
+        return Bare(value.const)
+    return value
 
 
 def as_binding_value(value: Any) -> Any:
@@ -433,7 +441,7 @@ class ScopeEvaluator:
         if node is None:
             return UNKNOWN
         engine = self.engine
-        if engine.depth > MAX_EXPRESSION_DEPTH:
+        if engine.depth > engine.depth_budget:
             return UNKNOWN
         engine.depth += 1
         try:
@@ -492,6 +500,9 @@ class ScopeEvaluator:
                         or checks.check_offset_combination(verb, left, right))
             return self._sum_result(left, right, isinstance(op, ast.Sub))
         if isinstance(op, (ast.Mult, ast.Div, ast.FloorDiv, ast.MatMult)):
+            # a name bound only to a number is unknown in sums, but in a product it is still a
+            # plain number: dimensionless, and possibly a conversion factor
+            left, right = _as_factor(left), _as_factor(right)
             self.report(node, checks.check_offset_product(left, right) or checks.check_offset_product(right, left))
             return self._product(left, right, divide=isinstance(op, (ast.Div, ast.FloorDiv)))
         if isinstance(op, ast.Pow):
@@ -518,6 +529,9 @@ class ScopeEvaluator:
             if left.pint or right.pint:
                 # pint: degC - degC is a difference, degC - K stays a degC temperature
                 offset = left.offset and not (subtract and right.offset)
+                if subtract and left.offset and right.offset:
+                    return left.replace(label="delta_" + left.label, derived=False, origin=None,
+                                        offset=False, pint=True)
             else:
                 offset = left.offset and right.offset and not subtract
             if left.offset == offset and left.scales == right.scales and left.pint == right.pint:
@@ -535,6 +549,12 @@ class ScopeEvaluator:
 
     @staticmethod
     def _product(left: Any, right: Any, divide: bool) -> Any:
+        if isinstance(left, Quantity) and isinstance(right, Quantity) and left.pint != right.pint:
+            # a float times a pint quantity: at run time the float is a plain number
+            plain = left if right.pint else right
+            factor = Bare(1.0)
+            return ScopeEvaluator._product(factor if plain is left else left,
+                                           factor if plain is right else right, divide)
         if isinstance(left, Quantity) and isinstance(right, Quantity):
             return quantity_product(left, right, divide)
         if isinstance(left, Quantity) and isinstance(right, Bare):

@@ -270,7 +270,8 @@ class Project:
     def _marked(self, module: ModuleSymbols) -> bool:
         if module.is_stub:  # pint's objects carry units at run time (inference/pint_support.py)
             return stub_has_units(module) or _is_pint(module)
-        return _has_scaled_comment_unit(module) or _MARKERS.search(module.source) is not None
+        return (module.declares_from_text or _has_scaled_comment_unit(module)
+                or _MARKERS.search(module.source) is not None)
 
     def _reaches_marked(self, start: tuple) -> bool:
         """Search the import graph from ``start`` for a module that declares units.

@@ -44,17 +44,26 @@ def _missing_factor(value: Quantity, declared: Quantity) -> str:
     return f"; missing a factor of {si_label(missing)} [{missing.format()}]{guess}"
 
 
+def _source_note(quantity: Quantity) -> str:
+    origin = quantity.origin
+    if origin is not None and origin.kind == "name":
+        return f" from the name '{origin.name}'"
+    if origin is not None and origin.kind == "docstring":
+        return f" from the docstring (line {origin.line})"
+    return ""
+
+
+def unit_with_source(quantity: Quantity) -> str:
+    """``mm from the name 'width_mm'``: the unit, and where it came from when not obvious."""
+    return quantity.display_unit() + _source_note(quantity)
+
+
 def described(quantity: Quantity) -> str:
     """``m/s [L T^-1] (velocity)``: unit, dimension and, where it has one, the kind's name;
     and where the unit was read from a name or a docstring, that it was."""
     kind = kind_of(quantity.dimension)
     text = f"{quantity.describe()} ({kind})" if kind else quantity.describe()
-    origin = quantity.origin
-    if origin is not None and origin.kind == "name":
-        text += f" from the name '{origin.name}'"
-    elif origin is not None and origin.kind == "docstring":
-        text += f" from the docstring (line {origin.line})"
-    return text
+    return text + _source_note(quantity)
 
 
 def check_docstring_agrees(what: str, documented, declared) -> Problem | None:
@@ -102,7 +111,7 @@ def check_combination(verb: str, left, right) -> Problem | None:
             template = _SUM_VERBS.get(verb, verb + " disagree: {left} and {right}")
             return Problem("DIM101", template.format(left=described(left), right=described(right)))
         if not pint and not quantities_share_scale(left, right):
-            return Problem("DIM201", f"{verb}: {left.display_unit()} and {right.display_unit()} "
+            return Problem("DIM201", f"{verb}: {unit_with_source(left)} and {unit_with_source(right)} "
                                      f"have the same dimension [{left.dimension.format()}] but different "
                                      f"scales; {_scale_hint(right, left)} to bring the "
                                      f"{right.display_unit()} value to {left.display_unit()}")
@@ -135,8 +144,8 @@ def check_binding(what: str, declared: Quantity, value) -> Problem | None:
     if value.pint:
         return None  # pint converts between scales itself
     if not quantities_share_scale(value, declared):
-        return Problem("DIM201", f"{what} is declared {declared.display_unit()} but the value is in "
-                                 f"{value.display_unit()} (same dimension [{declared.dimension.format()}]); "
+        return Problem("DIM201", f"{what} is declared {unit_with_source(declared)} but the value is in "
+                                 f"{unit_with_source(value)} (same dimension [{declared.dimension.format()}]); "
                                  f"{_scale_hint(value, declared)}")
     return None
 
@@ -162,8 +171,8 @@ def check_argument(param: str, function: str, declared: Quantity, value,
                                  f"radians; convert with math.radians() or multiply by pi/180")
     if transcendental and declared.is_dimensionless:
         return None  # a ratio of like quantities at mixed scales: too common to flag here
-    return Problem("DIM201", f"argument '{param}' of {function}() expects {declared.display_unit()} "
-                             f"but got {value.display_unit()} (same dimension "
+    return Problem("DIM201", f"argument '{param}' of {function}() expects {unit_with_source(declared)} "
+                             f"but got {unit_with_source(value)} (same dimension "
                              f"[{declared.dimension.format()}]); {_scale_hint(value, declared)}")
 
 
@@ -171,21 +180,31 @@ def _is_pint(value) -> bool:
     return isinstance(value, Quantity) and value.pint
 
 
+def _is_difference(quantity: Quantity) -> bool:
+    """A temperature difference (delta_degC, or degC - degC): pint adds it to a degC value."""
+    return quantity.label.startswith("delta_")
+
+
 def _pint_combination(verb: str, left, right) -> Problem | None:
     """What pint itself refuses at run time in a sum or comparison (contract, section 8)."""
     if verb == "equal":
         return None  # == and != never raise in pint: they answer False/True
     quantity, other = (left, right) if _is_pint(left) else (right, left)
-    if isinstance(other, Bare) and not other.is_zero:
-        if quantity.offset:
+    plain_float = isinstance(other, Quantity) and not other.pint  # a float at run time
+    if isinstance(other, Bare) or plain_float:
+        shown = _number(other.value) if isinstance(other, Bare) else f"{other.display_unit()} value (a plain float)"
+        zero = isinstance(other, Bare) and other.is_zero
+        if quantity.offset and (not zero or verb != "add"):
             return Problem("DIM107", f"pint refuses to combine an absolute {quantity.display_unit()} "
-                                     f"temperature with the plain number {_number(other.value)}")
-        if not quantity.is_dimensionless:
-            return Problem("DIM101", f"pint refuses to {'compare' if verb == 'compare' else 'add'} the "
-                                     f"plain number {_number(other.value)} and {described(quantity)}; "
+                                     f"temperature with the plain number {shown}")
+        if not quantity.is_dimensionless and not zero:
+            return Problem("DIM101", f"pint refuses to {'compare' if verb != 'add' and verb != 'subtract' else 'add'} "
+                                     f"the plain number {shown} and {described(quantity)}; "
                                      f"give the number a unit")
+        return None
     if isinstance(left, Quantity) and isinstance(right, Quantity) and left.dimension == right.dimension:
-        if verb == "add" and (left.offset or right.offset):
+        if verb == "add" and (left.offset or right.offset) and not _is_difference(left) \
+                and not _is_difference(right):
             both = "two absolute temperatures" if left.offset and right.offset else \
                 "an absolute temperature and a kelvin value"
             return Problem("DIM107", f"pint refuses to add {both} ({left.display_unit()} and "
@@ -238,6 +257,8 @@ def check_power_law(base, exponent) -> Problem | None:
     if not (isinstance(base, Quantity) and isinstance(exponent, Bare)) or base.is_dimensionless:
         return None
     value = exponent.value
+    if not isinstance(value, (int, float)) or not math.isfinite(value):
+        return None
     if isinstance(value, int) or float(value).is_integer() or abs(abs(value) - 0.5) < 1e-12:
         return None
     powers = (base.dimension ** _fraction(value)).exponents

@@ -154,10 +154,6 @@ def test_non_utf8_config_file(tmp_path):
     assert_one_line_error(proc, "dimcheck.toml")
 
 
-@pytest.mark.xfail(strict=True, reason=(
-    "find_config (dimcheck/cli/config.py) skips a pyproject.toml it cannot parse and goes on "
-    "upwards, so a broken [tool.dimcheck] in the current folder is silently ignored: the run "
-    "uses defaults and exits 1, with nothing on stderr"))
 def test_invalid_toml_discovered(tmp_path):
     project = _project(tmp_path, "")
     (project / "pyproject.toml").write_text(INVALID_TOML)
@@ -208,11 +204,6 @@ def test_units_file_pint_cannot_read_is_exit_2(tmp_path, mode, content):
     assert_one_line_error(proc, "plant_units.txt")
 
 
-@pytest.mark.xfail(strict=True, reason=(
-    "a units file pint cannot read surfaces as 'dimcheck: internal error: UnitError: ... "
-    "(set DIMCHECK_DEBUG=1 for details)': a user's configuration mistake reported as a bug of "
-    "dimcheck's, without the key or the pyproject.toml (load_unit_table raises UnitError, "
-    "which main() treats as an internal error)"))
 @pytest.mark.parametrize("mode", MODES)
 def test_units_file_pint_cannot_read_names_the_key(tmp_path, mode):
     project = _project(tmp_path, "units = [\"plant_units.txt\"]")

@@ -32,7 +32,6 @@ PINT_SUPPORT_PENDING = pytest.mark.xfail(reason="pint support in progress", stri
 # Generated programs
 # ---------------------------------------------------------------------------------------
 
-@PINT_SUPPORT_PENDING
 # No shrinking: the programs are 2-5 lines already and a failing one is printed whole
 # (with both verdicts) through note(); shrinking would only slow the xfail run down.
 @settings(max_examples=60, deadline=None, derandomize=True, database=None,
@@ -189,7 +188,6 @@ def test_pint_behaves_as_contract_section_8_says(case):
     _assert_pint_behaviour(case)
 
 
-@PINT_SUPPORT_PENDING
 @pytest.mark.parametrize("case", CASES, ids=[c.id for c in CASES])
 def test_dimcheck_agrees_with_pint_on_section_8_case(case):
     outcome = _assert_pint_behaviour(case)  # pint first: this is the behaviour to match

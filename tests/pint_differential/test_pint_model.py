@@ -85,7 +85,6 @@ def test_planted_bug_raises_in_pint(bug):
         assert not isinstance(info.value, pint.OffsetUnitCalculusError)
 
 
-@PINT_SUPPORT_PENDING
 def test_dimcheck_reports_exactly_the_planted_bugs():
     report = dimcheck.check_paths([str(FIXTURE)])
     found = {(Path(f.path).name, f.line) for f in report.findings if is_error(f)}
