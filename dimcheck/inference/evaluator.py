@@ -528,7 +528,8 @@ class ScopeEvaluator:
                 return UNKNOWN
             if left.pint or right.pint:
                 # pint: degC - degC is a difference, degC - K stays a degC temperature
-                offset = left.offset and not (subtract and right.offset)
+                # (two added are already reported: the sum is not judged again)
+                offset = left.offset and not right.offset
                 if subtract and left.offset and right.offset:
                     return left.replace(label="delta_" + left.label, derived=False, origin=None,
                                         offset=False, pint=True)
