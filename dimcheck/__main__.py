@@ -1,7 +1,5 @@
 """``python -m dimcheck`` is the same as the ``dimcheck`` command."""
 
-import sys
+from .cli.main import run_and_exit
 
-from .cli.main import main
-
-sys.exit(main())
+run_and_exit()

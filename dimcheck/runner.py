@@ -85,9 +85,12 @@ class Checker:
         return ResultCache(default_folder(self.config), key)
 
     def new_project(self) -> Project:
-        return Project(self.config.stubs, self.options)
+        project = Project(self.config.stubs, self.options)
+        if getattr(self, "scope", None):
+            project.limit_to(self.scope)
+        return project
 
-    def check_files(self, files: list[str], jobs: int = 1) -> list[Finding]:
+    def check_files(self, files: list[str], jobs: int = 1, scope: list[str] | None = None) -> list[Finding]:
         """Findings of the files, sorted. Files whose cached result still holds are not read;
         the rest are checked here or, with ``jobs`` > 1 and enough of them, in worker
         processes (each with its own view of the project), with the same result."""
@@ -101,6 +104,7 @@ class Checker:
             else:
                 raw_by_path[path] = cached
         dependencies: dict[str, set[str]] = {}
+        self.scope = scope
         for path, raw in self._compute(pending, jobs, dependencies):
             raw_by_path[path] = raw
         if cache is not None and pending:
@@ -121,7 +125,7 @@ class Checker:
 
         context = multiprocessing.get_context("fork" if "fork" in multiprocessing.get_all_start_methods()
                                               else "spawn")
-        with context.Pool(len(chunks), initializer=_worker_start, initargs=(self.config,)) as pool:
+        with context.Pool(len(chunks), initializer=_worker_start, initargs=(self.config, self.scope)) as pool:
             results = []
             for chunk_results, chunk_dependencies in pool.imap(_worker_check, chunks):
                 results.extend(chunk_results)
@@ -146,6 +150,8 @@ class Checker:
                 gc.enable()
         for module, used in project.dependencies.items():
             dependencies.setdefault(module, set()).update(used)
+        if KEEP_ALIVE is not None:
+            KEEP_ALIVE.append((project, engine))  # freeing millions of nodes costs seconds
         return results
 
     @staticmethod
@@ -175,6 +181,10 @@ class Checker:
                                 finding.code, finding.message, cell])
         return results
 
+
+# The command line sets this to a list: what a run built is then kept until the process
+# exits (without tearing it down), since freeing every syntax tree one by one takes seconds.
+KEEP_ALIVE: list | None = None
 
 MIN_FILES_PER_JOB = 25  # below this, starting workers costs more than it saves
 
@@ -214,9 +224,10 @@ def split_work(paths: list[str], jobs: int) -> list[list[str]]:
 _WORKER: "Checker | None" = None
 
 
-def _worker_start(config: Config) -> None:
+def _worker_start(config: Config, scope) -> None:
     global _WORKER
     _WORKER = Checker(config)
+    _WORKER.scope = scope
 
 
 def _worker_check(paths: list[str]):
@@ -255,4 +266,4 @@ def check_paths(paths: list[str], config: Config | None = None, select: list[str
     base = str(config.base_dir) if config.source is not None else None
     files, errors = discover(paths, config.exclude, base)
     checker = Checker(config, select, ignore, use_cache=use_cache)
-    return Report(len(files), checker.check_files(files, jobs), errors)
+    return Report(len(files), checker.check_files(files, jobs, scope=paths), errors)

@@ -16,6 +16,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from ..declarations.comments import trailing_comment_units
+from ..declarations.annotations import AliasRef, UnitText, read_annotation
 from ..declarations.symbols import DeclarationOptions, ImportRef, ModuleSymbols, collect_symbols
 
 SHIPPED_STUBS = Path(__file__).resolve().parent.parent / "stubs"
@@ -139,6 +140,10 @@ class Project:
             self._index_stubs(Path(folder))
         self._stub_modules: dict[str, ModuleSymbols | None] = {}
         self._tainted: dict[str, bool] = {}
+        self._marks: dict[str, bool] = {}
+        self._coarse: dict[str, bool] = {}
+        self._scopes: list[str] | None = None  # see limit_to
+        self._candidates: dict[str, list[str]] = {}
         # module path -> paths of the modules it was seen to use: what its result depends on
         self.dependencies: dict[str, set[str]] = {}
 
@@ -210,16 +215,39 @@ class Project:
             return stub
         if name in self._by_name:
             key = self._by_name[name]
-            return None if key is None else self._by_path[key].symbols
+            if key is None:
+                return None
+            return self._by_path[key].symbols
         relative = Path(*name.split("."))
         for root in list(self._roots):
             for candidate in (root / relative.with_suffix(".py"), root / relative / "__init__.py"):
-                if candidate.is_file():
+                if candidate.is_file() and self._within_scope(str(candidate)):
                     loaded = self.load(str(candidate))
                     self._by_name[name] = os.path.abspath(candidate)
                     return loaded.symbols
         self._by_name[name] = None  # remember the miss
         return None
+
+    def limit_to(self, paths: list[str]) -> None:
+        """Read only modules of the checked code: below the folders given, or in the package
+        of a file given. Installed third-party packages beside them stay unread (unknown),
+        which keeps a check of one package from parsing everything it imports."""
+        scopes = []
+        for given in paths:
+            full = os.path.abspath(given)
+            if os.path.isdir(full):
+                scopes.append(full)
+            else:
+                name, root, _ = module_name_for(Path(full))
+                top = name.split(".")[0] if "." in name or os.path.basename(full) == "__init__.py" else ""
+                scopes.append(os.path.join(str(root), top) if top else os.path.dirname(full))
+        self._scopes = [scope.rstrip(os.sep) + os.sep for scope in scopes]
+
+    def _within_scope(self, path: str) -> bool:
+        if self._scopes is None:
+            return True
+        full = os.path.abspath(path)
+        return any(full.startswith(scope) for scope in self._scopes)
 
     def find_from(self, requester: ModuleSymbols | None, name: str) -> ModuleSymbols | None:
         """``find_module`` on behalf of a module, remembering that it depends on the result."""
@@ -228,14 +256,19 @@ class Project:
             used = self.dependencies.setdefault(os.path.abspath(requester.path), set())
             if target is not None:
                 used.add(os.path.abspath(target.path))
-            elif not self.has_stub(name):
-                used.update(self.candidate_paths(name))  # a file appearing there changes things
+            elif not self.has_stub(name):  # a file appearing there changes things
+                used.update(path for path in self.candidate_paths(name) if self._within_scope(path))
         return target
 
     def candidate_paths(self, name: str) -> list[str]:
-        relative = Path(*name.split("."))
-        return [str(root / relative.with_suffix(".py")) for root in self._roots] + \
-               [str(root / relative / "__init__.py") for root in self._roots]
+        key = f"{name}|{len(self._roots)}"
+        found = self._candidates.get(key)
+        if found is None:
+            relative = os.path.join(*name.split("."))
+            found = [os.path.join(str(root), relative + ".py") for root in self._roots] + \
+                    [os.path.join(str(root), relative, "__init__.py") for root in self._roots]
+            self._candidates[key] = found
+        return found
 
     def dependency_closure(self, path: str) -> set[str]:
         """Every module path a module's result may depend on (itself excluded)."""
@@ -268,10 +301,15 @@ class Project:
         return self._reaches_marked(("module", module))
 
     def _marked(self, module: ModuleSymbols) -> bool:
-        if module.is_stub:  # pint's objects carry units at run time (inference/pint_support.py)
-            return stub_has_units(module) or _is_pint(module)
-        return (module.declares_from_text or _has_scaled_comment_unit(module)
-                or _MARKERS.search(module.source) is not None)
+        found = self._marks.get(module.path)
+        if found is None:
+            if module.is_stub:  # pint's objects carry units at run time (inference/pint_support.py)
+                found = stub_has_units(module) or _is_pint(module)
+            else:
+                found = (module.declares_from_text or _has_scaled_comment_unit(module)
+                         or _MARKERS.search(module.source) is not None)
+            self._marks[module.path] = found
+        return found
 
     def _reaches_marked(self, start: tuple) -> bool:
         """Search the import graph from ``start`` for a module that declares units.
@@ -319,8 +357,96 @@ class Project:
         defined_here = name in module.functions or name in module.classes or name in module.globals_declared
         if name in module.imports and not defined_here:
             yield from self._import_targets(module, module.imports[name])
+        elif name in module.globals_declared or name in module.aliases:
+            # `X: Final = ...`, `Array: TypeAlias = Any`: only a real unit, or an alias of one
+            spec = module.globals_declared[name][0] if name in module.globals_declared else module.aliases[name]
+            yield from self._spec_successors(module, spec, exclude=name)
+        elif name in module.functions or name in module.classes:
+            yield from self._definition_successors(module, name)
         else:
-            yield ("module", module)
+            yield ("module", module)  # a plain module-level value: whatever the module holds
+
+    def _module_may_reach_units(self, start: ModuleSymbols) -> bool:
+        """The coarse question, module by module (any import of a module counts): a cheap
+        filter before the name-by-name search, which reads function bodies."""
+        memo = self._coarse
+        if start.path in memo:
+            return memo[start.path]
+        seen = {start.path}
+        stack = [start]
+        while stack:
+            module = stack.pop()
+            known = memo.get(module.path)
+            if known is False:
+                continue
+            if known or self._marked(module):
+                memo[start.path] = True
+                return True
+            if module.is_stub:
+                continue
+            for ref in module.imports.values():
+                for successor in self._import_targets(module, ref):
+                    if successor is _UNIT_BEARING:
+                        memo[start.path] = True
+                        return True
+                    target = successor[1]
+                    if target.path not in seen:
+                        seen.add(target.path)
+                        stack.append(target)
+        for path in seen:
+            memo[path] = False
+        return False
+
+    @staticmethod
+    def _spec_successors(module: ModuleSymbols, spec, exclude: str):
+        """A declaration can carry a unit if it is one, or names an alias that may be one."""
+        if isinstance(spec, AliasRef):
+            first = spec.parts[0]  # `x: Length` may be a unit alias; `x: int` is not
+            if first != exclude and (first in module.aliases or first in module.imports):
+                yield ("name", module, first)
+        elif spec is not None and not _plain_dimensionless_spec(spec):
+            yield _UNIT_BEARING
+
+    def _definition_successors(self, module: ModuleSymbols, name: str):
+        """A function or class can hand out units only through its own declarations or the
+        module-level names its body uses: follow those instead of the whole module, so one
+        documented function does not make every importer of its module worth analysing."""
+        if not self._module_may_reach_units(module):
+            return  # nothing the whole module can reach declares a unit: no need to look closer
+        top_level = module.functions.keys() | module.classes.keys() | module.globals_declared.keys() \
+            | module.imports.keys() | module.aliases.keys()
+        specs = []
+        if name in module.functions:
+            functions = [module.functions[name]]
+            nodes = [functions[0].node]
+        else:
+            info = module.classes[name]
+            functions = list(info.methods.values())
+            nodes = [info.node]
+            specs = [spec for spec, _ in info.attributes.values()]
+        for function in functions:
+            specs += [function.return_spec, *(param.spec for param in function.params)]
+        used: set[str] = set()
+        for spec in specs:
+            for successor in self._spec_successors(module, spec, exclude=name):
+                if successor is _UNIT_BEARING:
+                    yield _UNIT_BEARING
+                    return
+                used.add(successor[2])
+        for node in nodes:
+            first, last = node.lineno, node.end_lineno or node.lineno
+            if any(first <= line <= last and unit.text not in _PLAIN_DIMENSIONLESS
+                   for line, unit in module.comment_units.items()):
+                yield _UNIT_BEARING  # a local declaration in its body
+                return
+            for inner in ast.walk(node):
+                if isinstance(inner, ast.Name) and inner.id in top_level and inner.id != name:
+                    used.add(inner.id)
+                elif isinstance(inner, ast.AnnAssign) and isinstance(read_annotation(inner.annotation), UnitText):
+                    yield _UNIT_BEARING  # a local Annotated declaration
+                    return
+        for other in sorted(used):
+            yield ("name", module, other)
 
     def _import_targets(self, module: ModuleSymbols, ref: ImportRef):
         base = self.resolve_import(module, ref)
