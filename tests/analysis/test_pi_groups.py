@@ -464,12 +464,10 @@ def test_checking_does_not_import_sympy(tmp_path):
         'from typing import Annotated\n'
         'def head(dp: Annotated[float, "Pa"], rho: Annotated[float, "kg/m^3"]) -> Annotated[float, "m"]:\n'
         '    return dp / rho\n')
-    script = ("import runpy, sys\n"
-              "sys.argv = ['dimcheck', 'check', 'flow.py', '--no-cache', '--jobs', '1']\n"
-              "try:\n"
-              "    runpy.run_module('dimcheck', run_name='__main__')\n"
-              "except SystemExit as exit:\n"
-              "    code = exit.code\n"
+    # main() rather than the console entry point, which leaves the process with os._exit
+    script = ("import sys\n"
+              "from dimcheck.cli.main import main\n"
+              "code = main(['check', 'flow.py', '--no-cache', '--jobs', '1'])\n"
               "print('EXIT', code, 'SYMPY', 'sympy' in sys.modules, 'ANALYSIS', 'dimcheck.analysis' in sys.modules)\n")
     env = dict(os.environ)
     env["PYTHONPATH"] = os.pathsep.join(filter(None, [str(REPO), env.get("PYTHONPATH")]))
