@@ -164,11 +164,11 @@ def run_and_exit(argv: list[str] | None = None) -> None:
     """The console entry point: run, flush, and leave without tearing down the heap of
     syntax trees one object at a time (the operating system reclaims it at once)."""
     code = main(argv)
-    try:
-        sys.stdout.flush()
-        sys.stderr.flush()
-    except Exception:
-        code = code or EXIT_TROUBLE
+    for stream in (sys.stdout, sys.stderr):
+        try:
+            stream.flush()
+        except (OSError, ValueError):  # the reader went away (an editor closed its pipe)
+            pass
     os._exit(code)
 
 

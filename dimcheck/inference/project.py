@@ -237,10 +237,14 @@ class Project:
             full = os.path.abspath(given)
             if os.path.isdir(full):
                 scopes.append(full)
-            else:
+                continue
+            try:
                 name, root, _ = module_name_for(Path(full))
-                top = name.split(".")[0] if "." in name or os.path.basename(full) == "__init__.py" else ""
-                scopes.append(os.path.join(str(root), top) if top else os.path.dirname(full))
+            except (OSError, RuntimeError):  # a symbolic-link loop: reported as DIM902 later
+                scopes.append(os.path.dirname(full))
+                continue
+            top = name.split(".")[0] if "." in name or os.path.basename(full) == "__init__.py" else ""
+            scopes.append(os.path.join(str(root), top) if top else os.path.dirname(full))
         self._scopes = [scope.rstrip(os.sep) + os.sep for scope in scopes]
 
     def _within_scope(self, path: str) -> bool:
