@@ -506,6 +506,13 @@ class Engine:
                             evaluator.report(arg_node, checks.check_argument(
                                 param.name, function.name, expected, value, transcendental))
 
+        result = self._call_result(callee, function, module, bound, bindings, arguments, node, evaluator)
+        if (isinstance(result, Quantity) and not result.pint and module.is_stub
+                and module.name.split(".")[0] == "numpy" and _any_pint(bound)):
+            result = result.replace(pint=True)  # numpy on pint quantities returns quantities
+        return result
+
+    def _call_result(self, callee, function, module, bound, bindings, arguments, node, evaluator) -> Any:
         returned = self.declared(module, function.return_spec)
         if function.pint_wrapper == "wraps" and isinstance(returned, Quantity):
             returned = returned.replace(pint=True, origin=None)  # the caller gets a quantity back
@@ -616,6 +623,10 @@ class Engine:
         for info in module.classes.values():
             for spec, _ in info.attributes.values():
                 self.declared(module, spec)
+
+
+def _any_pint(bound: dict) -> bool:
+    return any(isinstance(value, Quantity) and value.pint for values in bound.values() for value, _ in values)
 
 
 def bind_arguments(function: FunctionInfo, bound_self: Any, args: list, keywords: dict) -> dict:
