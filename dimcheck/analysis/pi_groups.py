@@ -24,6 +24,7 @@ from fractions import Fraction
 from math import gcd, lcm
 from typing import Iterable, Sequence
 
+from ..inference.labels import power_text
 from ..units.dimension import DIMENSIONLESS, Dimension
 
 
@@ -48,7 +49,7 @@ class Group:
         return dict(self.exponents)
 
     def format(self) -> str:
-        return " * ".join(_power_text(name, power) for name, power in self.exponents)
+        return " * ".join(power_text(name, power) for name, power in self.exponents)
 
 
 @dataclass(frozen=True)
@@ -69,14 +70,6 @@ class GroupAnalysis:
         """Variables that appear in no group (they cannot matter, dimensionally)."""
         used = {name for group in self.groups for name, _ in group.exponents}
         return tuple(v.name for v in self.variables if v.name not in used)
-
-
-def _power_text(name: str, power: Fraction) -> str:
-    if power == 1:
-        return name
-    if power.denominator == 1:
-        return f"{name}^{power.numerator}"
-    return f"{name}^({power.numerator}/{power.denominator})"
 
 
 def dimension_matrix(variables: Sequence[Variable]) -> tuple[tuple[str, ...], tuple[tuple[Fraction, ...], ...]]:

@@ -125,22 +125,14 @@ def main(argv: list[str] | None = None) -> int:
     parser = build_parser()
     try:
         args = parser.parse_args(argv)
-        if args.command == "check":
-            return _run_check(args)
-        if args.command == "rules":
-            return _run_rules()
-        if args.command == "groups":
-            return groups_command.run(args)
-        if args.command == "explain":
-            return analysis_commands.run_explain(args)
-        if args.command == "coverage":
-            return analysis_commands.run_coverage(args)
-        if args.command == "declarations":
-            return analysis_commands.run_declarations(args)
-        if args.command == "serve":
-            return serve_command.run(args)
-        if args.command == "annotate":
-            return annotate_command.run(args)
+        handlers = {
+            "check": _run_check, "rules": lambda _: _run_rules(), "groups": groups_command.run,
+            "explain": analysis_commands.run_explain, "coverage": analysis_commands.run_coverage,
+            "declarations": analysis_commands.run_declarations, "serve": serve_command.run,
+            "annotate": annotate_command.run,
+        }
+        if args.command in handlers:
+            return handlers[args.command](args)
         parser.print_help()
         return EXIT_TROUBLE
     except (UsageError, ConfigError, analysis_commands.CommandError) as error:

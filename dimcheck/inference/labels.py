@@ -35,7 +35,8 @@ _SPECIAL_NAMES = {
 }
 
 
-def _power(symbol: str, power: Fraction) -> str:
+def power_text(symbol: str, power: Fraction) -> str:
+    """``m``, ``m^2``, ``m^(1/2)``: a symbol raised to an exact power."""
     if power == 1:
         return symbol
     if power.denominator == 1:
@@ -53,7 +54,7 @@ def si_label(dimension: Dimension) -> str:
     denominator = []
     for name, power in dimension.exponents:
         symbol = _BASE_SYMBOL.get(name, name)
-        (numerator if power > 0 else denominator).append(_power(symbol, abs(power)))
+        (numerator if power > 0 else denominator).append(power_text(symbol, abs(power)))
     top = "*".join(numerator) or "1"
     if not denominator:
         return top
