@@ -317,7 +317,35 @@ class ScopeEvaluator:
 
     def _stmt_If(self, node: ast.If) -> None:
         self.expr(node.test)
-        self._branches([node.body, node.orelse])
+        narrowed = self._narrowing(node.test)
+        if narrowed is None:
+            self._branches([node.body, node.orelse])
+            return
+        name, value = narrowed  # `if q.check("[length]"):` -- inside, q is a length
+        base = self.env
+        self.env = dict(base)
+        self.env[name] = value
+        self._stopped = False
+        self.run(node.body)
+        body_env, body_stopped = self.env, self._stopped
+        self.env, self._stopped = dict(base), False
+        self.run(node.orelse)
+        live = [env for env, stopped in ((body_env, body_stopped), (self.env, self._stopped)) if not stopped]
+        self._stopped = not live
+        self.env = merge_envs(base, live) if live else base
+
+    def _narrowing(self, test: ast.expr):
+        """A pint ``q.check("[length]")`` guard on a name whose dimension is not yet known."""
+        if not (isinstance(test, ast.Call) and isinstance(test.func, ast.Attribute)
+                and test.func.attr == "check" and isinstance(test.func.value, ast.Name)
+                and len(test.args) == 1 and isinstance(test.args[0], ast.Constant)
+                and isinstance(test.args[0].value, str) and test.args[0].value.startswith("[")):
+            return None
+        name = test.func.value.id
+        if isinstance(self.env.get(name), Quantity):
+            return None
+        quantity = self.engine.pint.dimension_guard(test.args[0].value)
+        return (name, quantity) if quantity is not None else None
 
     def _stmt_For(self, node: ast.For) -> None:
         iterable = self.expr(node.iter)

@@ -195,6 +195,14 @@ class PintSupport:
             return result if name == "to" else UNKNOWN
         return UNKNOWN
 
+    def dimension_guard(self, text: str) -> Quantity | None:
+        """The quantity a ``.check("[length]")`` guard promises, scale left open."""
+        try:
+            unit = parse_unit(text, self.engine.table)
+        except UnitError:
+            return None
+        return Quantity(unit.dimension, None, text, pint=True)
+
     # -- library functions given pint quantities -------------------------------------------------------
     @staticmethod
     def math_refuses(function, bound: dict) -> list[tuple[Problem, Any]]:

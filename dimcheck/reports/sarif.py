@@ -34,7 +34,11 @@ def render(report) -> str:
                   "level": _LEVEL[finding.severity], "message": {"text": finding.message},
                   "locations": [location]}
         if finding.cell is not None:
+            # a notebook: the region counts lines within the cell, which the logical
+            # location names, so a viewer can point at "cell 4, line 3"
             result["properties"] = {"cell": finding.cell}
+            location["logicalLocations"] = [{"name": f"cell {finding.cell}", "kind": "module"}]
+            result["message"] = {"text": f"cell {finding.cell}, line {finding.line}: {finding.message}"}
         results.append(result)
     document = {
         "$schema": "https://json.schemastore.org/sarif-2.1.0.json",

@@ -113,3 +113,12 @@ def test_registries_from_imports_and_application_registry():
         "app = get_application_registry()\n"
         "a = ureg.meter + app.second\n"
     ) == [(4, "DIM101")]
+
+
+def test_check_guard_narrows_an_unknown_quantity():
+    assert check(
+        'def describe(q):\n'                          # 7
+        '    if q.check("[length]"):\n'
+        '        return q + Q_(1, "s")\n'             # 9: q is a length here
+        '    return q + Q_(1, "s")\n'                 # 10: unknown here
+    ) == [(9, "DIM101")]

@@ -123,3 +123,8 @@ def test_declarations_command_lists_sources(tmp_path):
         ("doc.py", "drag", "area", "m^2", "docstring"), ("doc.py", "drag", "cd", "-", "docstring"),
         ("doc.py", "drag", "return", "N", "docstring"), ("doc.py", "google", "flow", "m^3/s", "docstring"),
         ("flume.py", "f", "width_mm", "mm", "name"), ("flume.py", "<variable>", "depth_m", "m", "name")}
+
+
+def test_docstring_fixture_reports_its_planted_bug():
+    report = check_paths([str(ROOT / "fixtures" / "docstrings")])
+    assert [(Path(f.path).name, f.line, f.code) for f in report.findings] == [("kiln.py", 105, "DIM101")]

@@ -190,3 +190,24 @@ def test_user_stub_folder_overrides_and_adds(tmp_path):
     config = Config(stubs=[tmp_path / "stubs"])
     report = check_paths([str(tmp_path / "code")], config)
     assert [(f.line, f.code) for f in report.findings] == [(4, "DIM101"), (4, "DIM104")]
+
+
+def test_user_stub_overrides_a_shipped_one(tmp_path):
+    from dimcheck.cli.config import Config
+    write_tree(tmp_path, {
+        # a user's math.pyi that (for this test) declares sqrt to take and give metres
+        "stubs/math.pyi": """\
+            from typing import Annotated
+            def sqrt(x: Annotated[float, "m"]) -> Annotated[float, "m"]: ...
+        """,
+        "code/use.py": """\
+            from typing import Annotated
+            import math
+            def f(t: Annotated[float, "s"]):
+                return math.sqrt(t)
+        """,
+    })
+    shipped = check_paths([str(tmp_path / "code")])
+    assert shipped.findings == []
+    overridden = check_paths([str(tmp_path / "code")], Config(stubs=[tmp_path / "stubs"]))
+    assert [(f.line, f.code) for f in overridden.findings] == [(4, "DIM104")]

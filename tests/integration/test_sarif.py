@@ -4,6 +4,8 @@ The schema file and where it comes from: tests/schemas/README.md.
 """
 
 import json
+import subprocess
+import sys
 import textwrap
 from pathlib import Path
 
@@ -128,3 +130,18 @@ def test_clean_run_is_valid_sarif_with_no_results(dimcheck, validator, tmp_path)
     assert_valid(validator, document)
     assert document["runs"][0]["results"] == []
     assert document["runs"][0]["tool"]["driver"]["rules"]
+
+
+def test_notebook_finding_has_a_usable_sarif_location():
+    # The region counts lines within the cell; the logical location names the cell.
+    import jsonschema
+    root = Path(__file__).resolve().parents[2]
+    out = subprocess.run([sys.executable, "-m", "dimcheck", "check", "fixtures/notebooks/pump_sizing.ipynb",
+                          "--format", "sarif", "--no-cache"], cwd=root, capture_output=True, text=True).stdout
+    document = json.loads(out)
+    jsonschema.validate(document, json.loads((root / "tests/schemas/sarif-schema-2.1.0.json").read_text()))
+    [result] = document["runs"][0]["results"]
+    [location] = result["locations"]
+    assert location["logicalLocations"] == [{"name": "cell 4", "kind": "module"}]
+    assert location["physicalLocation"]["region"]["startLine"] == 3
+    assert result["properties"]["cell"] == 4
