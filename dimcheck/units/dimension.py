@@ -56,21 +56,35 @@ class Dimension:
         return cls(((name, Fraction(1)),))
 
     # -- algebra -----------------------------------------------------------------
+    # Results are memoised: a program combines the same few dimensions over and over,
+    # and exact Fraction arithmetic is slow enough to show in a profile.
     def __mul__(self, other: "Dimension") -> "Dimension":
         if not other.exponents:
             return self
         if not self.exponents:
             return other
-        return Dimension(self.exponents + other.exponents)
+        key = ("*", self.exponents, other.exponents)
+        found = _RESULTS.get(key)
+        if found is None:
+            found = _remember(key, Dimension(self.exponents + other.exponents))
+        return found
 
     def __truediv__(self, other: "Dimension") -> "Dimension":
         if not other.exponents:
             return self
-        return Dimension(self.exponents + tuple((n, -p) for n, p in other.exponents))
+        key = ("/", self.exponents, other.exponents)
+        found = _RESULTS.get(key)
+        if found is None:
+            found = _remember(key, Dimension(self.exponents + tuple((n, -p) for n, p in other.exponents)))
+        return found
 
     def __pow__(self, power: Fraction | int) -> "Dimension":
-        power = Fraction(power)
-        return Dimension((n, p * power) for n, p in self.exponents)
+        key = ("**", self.exponents, power)
+        found = _RESULTS.get(key)
+        if found is None:
+            exponent = Fraction(power)
+            found = _remember(key, Dimension((n, p * exponent) for n, p in self.exponents))
+        return found
 
     def inverse(self) -> "Dimension":
         return Dimension((n, -p) for n, p in self.exponents)
@@ -117,3 +131,13 @@ class Dimension:
 
 
 DIMENSIONLESS = Dimension()
+
+_RESULTS: dict[tuple, Dimension] = {}
+_MAX_REMEMBERED = 100_000
+
+
+def _remember(key: tuple, result: Dimension) -> Dimension:
+    if len(_RESULTS) >= _MAX_REMEMBERED:
+        _RESULTS.clear()
+    _RESULTS[key] = result
+    return result
