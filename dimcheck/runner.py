@@ -37,12 +37,11 @@ class Report:
 
 
 def display_path(path: str) -> str:
-    """Paths in reports are relative to the current directory."""
+    """Paths in reports are relative to the current directory (contract, section 4)."""
     try:
-        relative = os.path.relpath(path)
-    except ValueError:
+        return os.path.relpath(path)
+    except ValueError:  # another drive on Windows: no relative path exists
         return path
-    return path if relative.startswith("..") and os.path.isabs(path) else relative
 
 
 def finding_message(located: Located) -> str:

@@ -494,7 +494,8 @@ class Engine:
             bindings[variable] = first
             for value, arg_node in members:
                 if value is not first and arg_node is not None:
-                    evaluator.report(arg_node, checks.check_combination(
+                    # the call is where the members are combined (max(h, t), np.where(c, h, t))
+                    evaluator.report(node if node is not None else arg_node, checks.check_combination(
                         f"arguments of {function.name}()", first, value))
         for param in function.params:  # generic templates such as "$X^2" checked after binding
             declared = self.declared(module, param.spec)
