@@ -352,7 +352,6 @@ def plan(paths: list[str], config=None) -> Plan:
     from ..declarations.names import NameUnits
     from ..declarations.suppressions import skips_file
     from ..inference.engine import Engine
-    from ..inference.project import Project
     from ..runner import Checker, display_path
 
     checker = Checker(config)

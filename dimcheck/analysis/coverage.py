@@ -92,7 +92,6 @@ def fully_declared(engine, function) -> bool:
 def measure(paths: list[str], config=None) -> CoverageReport:
     from ..cli.discovery import discover
     from ..inference.engine import Engine
-    from ..inference.project import Project
     from ..runner import Checker, display_path
 
     checker = Checker(config)

@@ -70,7 +70,6 @@ def _origin(value, base: str) -> str:
 def explain(target: Target, config=None) -> list[str]:
     from ..runner import Checker
     from ..inference.engine import Engine
-    from ..inference.project import Project
 
     if not os.path.isfile(target.path):
         raise ExplainError(f"file not found: {target.path}")

@@ -4,7 +4,6 @@ from __future__ import annotations
 
 import fnmatch
 import os
-from pathlib import Path
 
 SOURCE_SUFFIXES = (".py", ".pyi")
 # Folders never worth walking into: version control, virtual environments, build output, caches.

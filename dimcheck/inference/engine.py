@@ -1,5 +1,5 @@
-"""Whole-program inference: declarations resolved to quantities, module environments,
-calls (with per-call-site analysis of unannotated helpers), attributes and classes.
+"""Whole-program inference: module environments, calls (with per-call-site analysis of
+unannotated helpers), attributes and classes; declarations come from ``resolver.py``.
 
 One ``Engine`` serves one run over a project. It memoises everything it computes
 (declarations, module environments, function results) so each piece is done once,
@@ -16,25 +16,22 @@ from collections import defaultdict
 from dataclasses import dataclass, field
 from typing import Any
 
-from ..declarations.annotations import AliasRef, UnitText
 from ..declarations.symbols import (
     ClassInfo, FunctionInfo, ImportRef, ModuleSymbols, ParamInfo, make_function,
 )
 from ..rules import checks
 from ..rules.checks import Problem
-from ..units import UnitError, parse_unit
-from ..units.dimension import DIMENSIONLESS
 from .evaluator import MAX_EXPRESSION_DEPTH, STAR, Located, ScopeEvaluator, merge_values
-from .generic import GenericSyntaxError, GenericUnit, parse_generic
+from .generic import GenericUnit
 from .pint_support import PintSupport, is_pint_stub
 from .project import Project
+from .resolver import DeclarationResolver
 from .values import (
-    RECURSION, UNKNOWN, Bare, ClassValue, FunctionValue, InstanceValue, ModuleValue, Origin,
+    RECURSION, UNKNOWN, Bare, ClassValue, FunctionValue, InstanceValue, ModuleValue,
     PintFactoryValue, PintMethodValue, PintRegistryValue, Quantity, TupleValue, Unknown,
 )
 
 MAX_CALL_DEPTH = 6
-MAX_ALIAS_DEPTH = 12
 _ARRAY_ATTRIBUTES = {"T", "real", "imag", "flat", "mT"}
 
 
@@ -93,8 +90,9 @@ class Engine:
         # declared inputs (not the per-call-site re-analyses); used by explain and coverage
         self.observer = None
         self._call_depth = 0
-        self._declared: dict[tuple, Any] = {}
-        self._declaration_problems: dict[str, dict[tuple, Located]] = defaultdict(dict)
+        self.resolver = DeclarationResolver(project, table)
+        self.declared = self.resolver.declared  # the hot path: a bound method, no extra hop
+        self.global_declaration = self.resolver.global_declaration
         self._module_envs: dict[str, dict] = {}
         self._module_problems: dict[str, list[Located]] = defaultdict(list)
         self._baselines: dict[int, FunctionResult] = {}
@@ -107,80 +105,6 @@ class Engine:
         self._importing: set[tuple] = set()
         self.pint = PintSupport(self)
         self._inferred_attributes: dict[tuple, Any] = {}
-
-    # == declarations ======================================================================
-    def declared(self, module: ModuleSymbols, spec) -> Quantity | GenericUnit | None:
-        if spec is None:
-            return None
-        key = (module.path, spec)  # specs hash by text and node identity: stable while trees live
-        if key in self._declared:
-            return self._declared[key]
-        self._declared[key] = None  # a cycle of aliases resolves to nothing
-        if isinstance(spec, UnitText):
-            result = self._unit_text(module, spec)
-        else:
-            result = self._alias(module, spec.parts, 0)
-        self._declared[key] = result
-        return result
-
-    def _unit_text(self, module: ModuleSymbols, spec: UnitText) -> Quantity | GenericUnit | None:
-        text = spec.text.strip()
-        declared_by = getattr(spec.node, "declared_by", None)
-        kind = "stub" if module.is_stub else (declared_by or "annotation")
-        origin = Origin(module.path, getattr(spec.node, "lineno", 0), kind,
-                        getattr(spec.node, "declared_name", ""))
-        if "$" in text:
-            try:
-                return parse_generic(text)
-            except GenericSyntaxError as error:
-                self._declaration_problem(module, spec.node, str(error))
-                return None
-        if declared_by in ("comment", "docstring") and text in ("", "-"):
-            return Quantity(DIMENSIONLESS, (1.0,), "1", origin=origin)
-        try:
-            unit = parse_unit(text, self.table)
-        except UnitError as error:
-            self._declaration_problem(module, spec.node, str(error))
-            return None
-        scales = None if unit.scale is None else (unit.scale,)
-        return Quantity(unit.dimension, scales, text, origin=origin, offset=unit.is_offset,
-                        pint=spec.quantity_type)
-
-    def _declaration_problem(self, module: ModuleSymbols, node: ast.AST, message: str) -> None:
-        located = Located(Problem("DIM901", message), module.path, node.lineno, node.col_offset,
-                          getattr(node, "end_lineno", None) or node.lineno,
-                          getattr(node, "end_col_offset", None) or node.col_offset)
-        self._declaration_problems[module.path][located.key] = located
-
-    def _alias(self, module: ModuleSymbols, parts: tuple[str, ...], depth: int):
-        if depth > MAX_ALIAS_DEPTH or not parts:
-            return None
-        name = parts[0]
-        if len(parts) == 1:
-            if name in module.aliases:
-                return self.declared(module, module.aliases[name])
-            ref = module.imports.get(name)
-            if ref is not None and ref.attr is not None:
-                target = self.project.find_from(module, self.project.resolve_import(module, ref))
-                if target is not None:
-                    return self._alias(target, (ref.attr,), depth + 1)
-            return None
-        ref = module.imports.get(name)
-        if ref is None:
-            return None
-        base = self.project.resolve_import(module, ref)
-        dotted = f"{base}.{ref.attr}" if ref.attr else base
-        for middle in parts[1:-1]:
-            dotted = f"{dotted}.{middle}"
-        target = self.project.find_from(module, dotted)
-        return self._alias(target, parts[-1:], depth + 1) if target is not None else None
-
-    def global_declaration(self, module: ModuleSymbols, name: str) -> Quantity | None:
-        entry = module.globals_declared.get(name)
-        if entry is None:
-            return None
-        value = self.declared(module, entry[0])
-        return value if isinstance(value, Quantity) else None
 
     # == modules ===========================================================================
     def module_env(self, module: ModuleSymbols) -> dict:
@@ -500,7 +424,7 @@ class Engine:
         for param in function.params:  # generic templates such as "$X^2" checked after binding
             declared = self.declared(module, param.spec)
             if isinstance(declared, GenericUnit) and declared.single_variable is None:
-                expected = declared.evaluate(bindings, self._lookup_unit)
+                expected = declared.evaluate(bindings, self.resolver.lookup_unit)
                 if expected is not None:
                     for value, arg_node in bound.get(param.name, []):
                         if arg_node is not None:
@@ -518,7 +442,7 @@ class Engine:
         if function.pint_wrapper == "wraps" and isinstance(returned, Quantity):
             returned = returned.replace(pint=True, origin=None)  # the caller gets a quantity back
         if isinstance(returned, GenericUnit):
-            result = returned.evaluate(bindings, self._lookup_unit)
+            result = returned.evaluate(bindings, self.resolver.lookup_unit)
             return result if result is not None else UNKNOWN
         if module.is_stub or "<record>" in function.decorators:
             # unknown in, unknown out: library calls alone never make a value known
@@ -575,13 +499,6 @@ class Engine:
                         "DIM104", f"argument '{param.name}' of {function.name}() must be a pint quantity: "
                                   f"pint's @{function.pint_wrapper} refuses a plain number"))
 
-    def _lookup_unit(self, text: str) -> Quantity | None:
-        try:
-            unit = parse_unit(text, self.table)
-        except UnitError:
-            return None
-        return Quantity(unit.dimension, None if unit.scale is None else (unit.scale,), text)
-
     # == checking a module ======================================================================
     def check_module(self, module: ModuleSymbols) -> list[Located]:
         if not self.project.can_have_units(module):
@@ -591,7 +508,7 @@ class Engine:
         for function in module.all_functions:
             problems.extend(self.baseline(function).problems)
         self._validate_declarations(module)
-        problems.extend(self._declaration_problems[module.path].values())
+        problems.extend(self.resolver.problems[module.path].values())
         problems.extend(self._docstring_conflicts(module))
         unique: dict[tuple, Located] = {}
         for located in problems:

@@ -390,7 +390,7 @@ class ScopeEvaluator:
     def _stmt_Assert(self, node: ast.Assert) -> None:
         """``assert q.dimensionless`` on a quantity that has a dimension fails: what follows
         is not reached for that quantity (a guard in a helper analysed per call)."""
-        value = self.expr(node.test)
+        self.expr(node.test)
         if node.msg is not None:
             self.expr(node.msg)
         test = node.test
