@@ -80,10 +80,12 @@ def check_docstring_agrees(what: str, documented, declared) -> Problem | None:
 
 
 def _is_degree_to_radian(value: Quantity, target: Quantity) -> bool:
+    """A value that may still be in degrees (one of its candidate scales is the degree's and
+    none is the radian's) reaching a parameter declared in radians."""
     return (value.is_dimensionless and target.is_dimensionless and value.scales is not None
-            and target.scales is not None and len(value.scales) == 1
+            and target.scales is not None
             and target.display_unit() in ("rad", "radian", "radians")
-            and math.isclose(value.scales[0], _DEGREE, rel_tol=1e-9)
+            and any(math.isclose(s, _DEGREE, rel_tol=1e-9) for s in value.scales)
             and any(math.isclose(s, 1.0) for s in target.scales))
 
 

@@ -1,9 +1,10 @@
 # The math module, in dimcheck's stub notation (see README.md).
 from typing import Annotated
 
-pi: Annotated[float, "1"]
-e: Annotated[float, "1"]
-tau: Annotated[float, "1"]
+# plain numbers: they act like the literal they stand for (`angle * pi / 180` is in radians)
+pi = 3.141592653589793
+e = 2.718281828459045
+tau = 6.283185307179586
 inf: Annotated[float, "1"]
 nan: Annotated[float, "1"]
 

@@ -348,3 +348,14 @@ def weight(m: Annotated[float, "kg"]) -> Annotated[float, "N"]:
     assert finding.message == ("return value of weight() is declared N [M L T^-2] (force) but the "
                                "value is kg [M] (mass); missing a factor of m/s^2 [L T^-2] "
                                "(an acceleration?)")
+
+
+def test_degrees_times_pi_over_180_is_radians_and_other_factors_are_not():
+    # pi is a plain number (math.pi, np.pi): multiplying by pi/180 converts degrees to radians
+    assert check("""\
+        def f(angle: Annotated[float, "deg"]):
+            a = np.tan(angle * math.pi / 180)
+            b = math.sin(math.pi / 180 * angle)
+            c = math.sin(angle / 57.29577951308232)
+            d = math.sin(angle * 2)
+    """) == [(8, "DIM202")]

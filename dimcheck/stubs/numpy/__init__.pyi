@@ -2,9 +2,10 @@
 from typing import Annotated
 import numpy as np
 
-pi: Annotated[float, "1"]
-e: Annotated[float, "1"]
-euler_gamma: Annotated[float, "1"]
+# plain numbers: they act like the literal they stand for (`angle * pi / 180` is in radians)
+pi = 3.141592653589793
+e = 2.718281828459045
+euler_gamma = 0.5772156649015329
 inf: Annotated[float, "1"]
 nan: Annotated[float, "1"]
 
