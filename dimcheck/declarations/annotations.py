@@ -100,8 +100,3 @@ def _first_of_union(members, depth: int):
     if len(real) != 1:
         return None
     return read_annotation(real[0], depth + 1)
-
-
-def is_alias_definition(value: ast.AST) -> bool:
-    """Whether a module-level assignment's value looks like a unit alias."""
-    return isinstance(read_annotation(value), UnitText)

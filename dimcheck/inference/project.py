@@ -274,17 +274,6 @@ class Project:
             self._candidates[key] = found
         return found
 
-    def dependency_closure(self, path: str) -> set[str]:
-        """Every module path a module's result may depend on (itself excluded)."""
-        seen: set[str] = set()
-        stack = [path]
-        while stack:
-            for used in self.dependencies.get(stack.pop(), ()):
-                if used not in seen:
-                    seen.add(used)
-                    stack.append(used)
-        seen.discard(path)
-        return seen
 
     def resolve_import(self, module: ModuleSymbols, ref: ImportRef) -> str:
         """The absolute dotted name an import refers to (for ``from x import y``: x)."""

@@ -14,7 +14,7 @@ import math
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any
 
-from ..units.dimension import DIMENSIONLESS, Dimension
+from ..units.dimension import Dimension
 from .labels import compose_label, si_label
 
 if TYPE_CHECKING:
@@ -247,9 +247,6 @@ def intersect_scales(a, b):
     return common or a
 
 
-def dimensionless_quantity(label: str = "1") -> Quantity:
-    return Quantity(DIMENSIONLESS, (1.0,), label)
-
 
 def quantity_product(left: Quantity, right: Quantity, divide: bool) -> Quantity:
     dimension = left.dimension / right.dimension if divide else left.dimension * right.dimension
@@ -257,8 +254,3 @@ def quantity_product(left: Quantity, right: Quantity, divide: bool) -> Quantity:
     label = compose_label(left.display_unit(), "/" if divide else "*", right.display_unit())
     return Quantity(dimension, scales, label, derived=True, tolerance=left.tolerance + right.tolerance,
                     pint=left.pint or right.pint)
-
-
-def same_quantity_kind(a: Any, b: Any) -> bool:
-    """Equal dimension (used when merging branches)."""
-    return isinstance(a, Quantity) and isinstance(b, Quantity) and a.dimension == b.dimension
