@@ -1,7 +1,6 @@
 """The result cache gives the same findings as a fresh run, whatever changed in between."""
 
 import json
-import os
 import subprocess
 import sys
 import textwrap

@@ -9,8 +9,7 @@ Two parts:
    what pint really does (so the test documents pint 0.25.3's behaviour and fails loudly if
    a pint release changes it), then dimcheck's expected verdict.
 
-The dimcheck halves are marked xfail (not strict) while pint support is being written;
-remove the ``PINT_SUPPORT_PENDING`` marks once it lands.
+Both halves must hold: dimcheck's verdict agrees with what pint does at run time.
 """
 
 from __future__ import annotations
@@ -25,7 +24,6 @@ from .compare import compare, dimcheck_findings
 from .generator import FORMS, HEADER, HEADER_LINES, programs
 from .oracle import DIMENSIONALITY, OFFSET, PINT_VALUE_ERROR, run_with_pint
 
-PINT_SUPPORT_PENDING = pytest.mark.xfail(reason="pint support in progress", strict=False)
 
 
 # ---------------------------------------------------------------------------------------

@@ -17,7 +17,6 @@ import pytest
 import dimcheck
 
 from .compare import is_error
-from .test_against_pint import PINT_SUPPORT_PENDING
 
 FIXTURE = Path(__file__).resolve().parents[2] / "fixtures" / "pint_model"
 PACKAGE = FIXTURE / "laundrette"
