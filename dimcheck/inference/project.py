@@ -27,9 +27,10 @@ SHIPPED_STUBS = Path(__file__).resolve().parent.parent / "stubs"
 _MARKERS = re.compile(r"""Annotated\[[^\]\n]*,\s*(?:["']|[\w.]*Unit\()|\bUnit\(\s*["']""")
 
 
-# Comment declarations that cannot start a finding anywhere: every value built from them
-# is dimensionless at scale 1. Real code is full of "# [1]" after citations, which the
-# contract reads as dimensionless; they must not send whole packages through inference.
+# Unit texts that cannot start a finding anywhere: every value built from them is
+# dimensionless at scale 1 (not "deg", which can still reach a radian parameter). Real code
+# is full of "# [1]" after citations, which the contract reads as dimensionless; they must
+# not send whole packages through inference.
 _PLAIN_DIMENSIONLESS = frozenset({"1", "", "-", "dimensionless"})
 
 
@@ -476,9 +477,6 @@ def _node_key(node: tuple) -> tuple:
     return ("name", node[1].path, node[2])
 
 
-_DIMENSIONLESS_SPELLINGS = {"1", "", "-", "dimensionless", "rad", "radian", "deg", "degree"}
-
-
 def _is_pint(module: ModuleSymbols) -> bool:
     """pint's objects carry units at run time, so anything imported from pint may."""
     return module.name.split(".")[0] == "pint"
@@ -486,11 +484,12 @@ def _is_pint(module: ModuleSymbols) -> bool:
 
 def _plain_dimensionless_spec(spec) -> bool:
     text = getattr(spec, "text", None)
-    return text is not None and text.strip() in _DIMENSIONLESS_SPELLINGS
+    return text is not None and text.strip() in _PLAIN_DIMENSIONLESS
 
 
 def stub_has_units(module: ModuleSymbols) -> bool:
-    """A stub can hand out a known dimension from nothing only through a constant with a
-    dimensional unit (stub functions give unknown results for unknown arguments). Read
+    """A stub can hand out a known unit from nothing only through a constant that is more
+    than a plain dimensionless number (stub functions give unknown results for unknown
+    arguments); a degree constant counts, since degrees can reach a radian parameter. Read
     from the text alone; a false yes only costs a fuller analysis."""
     return any(not _plain_dimensionless_spec(spec) for spec, _ in module.globals_declared.values())

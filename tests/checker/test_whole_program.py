@@ -211,3 +211,12 @@ def test_user_stub_overrides_a_shipped_one(tmp_path):
     assert shipped.findings == []
     overridden = check_paths([str(tmp_path / "code")], Config(stubs=[tmp_path / "stubs"]))
     assert [(f.line, f.code) for f in overridden.findings] == [(4, "DIM104")]
+
+
+def test_degrees_returned_from_another_module_reach_an_unannotated_caller(tmp_path):
+    # a module whose only import is a function declared in degrees is still analysed
+    write_tree(tmp_path, {
+        "a.py": 'from typing import Annotated\ndef bearing() -> Annotated[float, "deg"]:\n    return 30.0\n',
+        "b.py": "import math\nfrom a import bearing\ny = math.sin(bearing())\n",
+    })
+    assert found(tmp_path) == [("b.py", 3, "DIM202")]
