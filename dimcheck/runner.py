@@ -262,7 +262,6 @@ def declaration_options(config: Config, table) -> DeclarationOptions:
 def check_paths(paths: list[str], config: Config | None = None, select: list[str] | None = None,
                 ignore: list[str] | None = None, use_cache: bool = False, jobs: int = 1) -> Report:
     config = config or Config()
-    base = str(config.base_dir) if config.source is not None else None
-    files, errors = discover(paths, config.exclude, base)
+    files, errors = discover(paths, config.exclude, config.exclude_base)
     checker = Checker(config, select, ignore, use_cache=use_cache)
     return Report(len(files), checker.check_files(files, jobs, scope=paths), errors)

@@ -356,7 +356,7 @@ def plan(paths: list[str], config=None) -> Plan:
 
     checker = Checker(config)
     config = checker.config
-    files, errors = discover(paths, config.exclude, str(config.base_dir) if config.source else None)
+    files, errors = discover(paths, config.exclude, config.exclude_base)
     result = Plan(errors=list(errors))
     project = checker.new_project()
     engine = Engine(project, checker.table)

@@ -95,8 +95,7 @@ def measure(paths: list[str], config=None) -> CoverageReport:
     from ..runner import Checker, display_path
 
     checker = Checker(config)
-    files, _ = discover(paths, checker.config.exclude,
-                        str(checker.config.base_dir) if checker.config.source else None)
+    files, _ = discover(paths, checker.config.exclude, checker.config.exclude_base)
     project = checker.new_project()
     engine = Engine(project, checker.table)
     known: set[int] = set()

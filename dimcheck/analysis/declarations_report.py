@@ -44,8 +44,7 @@ def collect(paths: list[str], config=None, assume_on: bool = False) -> tuple[lis
         from ..cli.config import Config
         config = dataclasses.replace(config or Config(), docstring_units=True, suffix_units=True)
     checker = Checker(config)
-    files, errors = discover(paths, checker.config.exclude,
-                             str(checker.config.base_dir) if checker.config.source else None)
+    files, errors = discover(paths, checker.config.exclude, checker.config.exclude_base)
     project = checker.new_project()
     engine = Engine(project, checker.table)
     found: list[Declaration] = []

@@ -42,6 +42,11 @@ class Config:
     def base_dir(self) -> Path:
         return self.source.parent if self.source else Path.cwd()
 
+    @property
+    def exclude_base(self) -> str | None:
+        """The folder ``exclude`` patterns are also matched relative to (the config's)."""
+        return str(self.base_dir) if self.source is not None else None
+
 
 _LIST_OF_STRINGS = ("paths", "exclude", "select", "ignore", "units", "stubs", "base-dimensions")
 _KNOWN_KEYS = set(_LIST_OF_STRINGS) | {"fail-on", "docstring-units", "suffix-units", "name-units"}

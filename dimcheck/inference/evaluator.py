@@ -13,7 +13,6 @@ from __future__ import annotations
 
 import ast
 from dataclasses import dataclass
-from fractions import Fraction
 from typing import TYPE_CHECKING, Any
 
 from ..declarations.symbols import FunctionInfo, make_function, read_annotation, record_import
@@ -24,7 +23,8 @@ from ..rules.checks import Problem
 from .generic import GenericUnit, raise_quantity
 from .values import (
     UNKNOWN, Bare, ClassValue, FunctionValue, InstanceValue, ModuleValue, Quantity,
-    TupleValue, Unknown, intersect_scales, literal_tolerance, quantity_product, scale_by_bare,
+    TupleValue, Unknown, exact_exponent, intersect_scales, literal_tolerance, quantity_product,
+    scale_by_bare,
 )
 
 if TYPE_CHECKING:
@@ -777,13 +777,3 @@ def choose(a: Any, b: Any) -> Any:
         return b
     return merge_values(a, b)
 
-
-def exact_exponent(value: float) -> Fraction | None:
-    """A literal exponent as an exact fraction (0.5 -> 1/2, 1/3 -> 1/3), or None."""
-    try:
-        fraction = Fraction(value).limit_denominator(1000)
-    except (OverflowError, ValueError, TypeError):
-        return None
-    if abs(float(fraction) - value) > 1e-9 * max(1.0, abs(value)) or abs(fraction) > 1000:
-        return None
-    return fraction

@@ -11,6 +11,7 @@
 from __future__ import annotations
 
 import math
+from fractions import Fraction
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any
 
@@ -254,3 +255,14 @@ def quantity_product(left: Quantity, right: Quantity, divide: bool) -> Quantity:
     label = compose_label(left.display_unit(), "/" if divide else "*", right.display_unit())
     return Quantity(dimension, scales, label, derived=True, tolerance=left.tolerance + right.tolerance,
                     pint=left.pint or right.pint)
+
+
+def exact_exponent(value: float) -> Fraction | None:
+    """A literal exponent as an exact fraction (0.5 -> 1/2, 1/3 -> 1/3), or None."""
+    try:
+        fraction = Fraction(value).limit_denominator(1000)
+    except (OverflowError, ValueError, TypeError):
+        return None
+    if abs(float(fraction) - value) > 1e-9 * max(1.0, abs(value)) or abs(fraction) > 1000:
+        return None
+    return fraction

@@ -10,7 +10,7 @@ from dataclasses import dataclass
 
 from ..inference.labels import si_label
 from .kinds import article, kind_of
-from ..inference.values import Bare, Quantity, quantities_share_scale
+from ..inference.values import Bare, Quantity, exact_exponent, quantities_share_scale
 
 _DEGREE = math.pi / 180.0
 
@@ -263,17 +263,12 @@ def check_power_law(base, exponent) -> Problem | None:
         return None
     if isinstance(value, int) or float(value).is_integer() or abs(abs(value) - 0.5) < 1e-12:
         return None
-    powers = (base.dimension ** _fraction(value)).exponents
-    if all(power.denominator == 1 for _, power in powers):
+    fraction = exact_exponent(value)
+    if fraction is not None and all(power.denominator == 1 for _, power in (base.dimension ** fraction).exponents):
         return None  # vol ** (1/3) is a plain length
     return Problem("DIM205", f"{base.describe()} raised to the empirical power {_number(value)}: "
                              f"the coefficient of such a law carries hidden units; raise a "
                              f"dimensionless group (such as a Reynolds number) instead")
-
-
-def _fraction(value: float):
-    from fractions import Fraction
-    return Fraction(value).limit_denominator(1000)
 
 
 def check_exponent(base, exponent, exponent_is_constant: bool) -> Problem | None:
