@@ -6,7 +6,6 @@ This is the one place the pipeline is put together; the command line, the API in
 
 from __future__ import annotations
 
-import dataclasses
 import gc
 import os
 import sys
@@ -50,10 +49,18 @@ def finding_message(located: Located) -> str:
     return f"{located.problem.message} (inside {', via '.join(located.chain)})"
 
 
-def _finding(located: Located, shown_path: str) -> Finding:
+def _finding_fields(located: Located, module, notebook) -> list:
+    """``[line, column, end_line, end_column, code, message, cell]``: a finding as the cache
+    stores it, with 1-based character columns and, in a notebook, lines counted in the cell."""
     end_line = max(located.end_line, located.line)
-    return Finding(shown_path, located.line, located.column + 1, end_line, located.end_column + 1,
-                   located.problem.code, finding_message(located))
+    column = _character_column(module.line_text(located.line), located.column + 1)
+    end_column = _character_column(module.line_text(end_line), located.end_column + 1)
+    line, cell = located.line, None
+    if notebook is not None:
+        cell, line = notebook.locate(located.line)
+        end_cell, end_in_cell = notebook.locate(end_line)
+        end_line = end_in_cell if end_cell == cell else line
+    return [line, column, end_line, end_column, located.problem.code, finding_message(located), cell]
 
 
 class Checker:
@@ -72,6 +79,7 @@ class Checker:
             raise ConfigError(f"{where}: {error}") from None
         self.use_cache = use_cache
         self.options = declaration_options(self.config, self.table)
+        self.scope: list[str] | None = None  # the paths given: modules outside are not read
 
     def _keep(self, code: str, line_text: str) -> bool:
         return code in self.codes and not is_suppressed(code, line_text)
@@ -85,7 +93,7 @@ class Checker:
 
     def new_project(self) -> Project:
         project = Project(self.config.stubs, self.options)
-        if getattr(self, "scope", None):
+        if self.scope:
             project.limit_to(self.scope)
         return project
 
@@ -155,8 +163,8 @@ class Checker:
 
     @staticmethod
     def _file_findings(project: Project, engine: Engine, path: str) -> list[list]:
-        """Every finding of one file, suppression comments applied, as plain field lists
-        ``[line, column, end_line, end_column, code, message]`` (what the cache stores)."""
+        """Every finding of one file, suppression comments applied, as field lists (what
+        the cache stores; see ``_finding_fields``)."""
         loaded = project.load(path)
         if loaded.text is not None and skips_file(loaded.text):
             return []
@@ -164,21 +172,8 @@ class Checker:
             error = loaded.error
             return [[error.line, error.column, error.line, error.column, "DIM902", error.message, error.cell]]
         module = loaded.symbols
-        results = []
-        for located in engine.check_module(module):
-            if not is_suppressed(located.problem.code, module.line_text(located.line)):
-                finding = _finding(located, "")
-                column = _character_column(module.line_text(finding.line), finding.column)
-                end_column = _character_column(module.line_text(finding.end_line), finding.end_column)
-                finding = dataclasses.replace(finding, column=column, end_column=end_column)
-                line, end_line, cell = finding.line, finding.end_line, None
-                if loaded.notebook is not None:  # lines are counted within the finding's cell
-                    cell, line = loaded.notebook.locate(finding.line)
-                    end_cell, end_in_cell = loaded.notebook.locate(finding.end_line)
-                    end_line = end_in_cell if end_cell == cell else line
-                results.append([line, finding.column, end_line, finding.end_column,
-                                finding.code, finding.message, cell])
-        return results
+        return [_finding_fields(located, module, loaded.notebook) for located in engine.check_module(module)
+                if not is_suppressed(located.problem.code, module.line_text(located.line))]
 
 
 # The command line sets this to a list: what a run built is then kept until the process
