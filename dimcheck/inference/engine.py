@@ -299,6 +299,12 @@ class Engine:
         self._baselines[key] = result
         return result
 
+    def _baseline_of(self, function: FunctionInfo, closure: ScopeEvaluator | None) -> FunctionResult:
+        """A function's baseline; a nested one has it only once its enclosing scope ran."""
+        if closure is None:
+            return self.baseline(function)
+        return self._baselines.get(id(function.node)) or FunctionResult(UNKNOWN)
+
     def _run_function(self, function: FunctionInfo, arguments: dict | None,
                       closure: ScopeEvaluator | None, baseline: bool) -> FunctionResult:
         if function.module.is_stub or "<record>" in function.decorators:
@@ -337,10 +343,7 @@ class Engine:
         self._call_depth += 1
         try:
             result = self._run_function(function, arguments, closure, baseline=False)
-            if closure is None:
-                known = {p.key for p in self.baseline(function).problems}
-            else:
-                known = {p.key for p in self._baselines.get(id(function.node), FunctionResult(None)).problems}
+            known = {p.key for p in self._baseline_of(function, closure).problems}
             result.problems = [p for p in result.problems if p.key not in known]
         finally:
             self._in_call.discard(key)
@@ -463,10 +466,7 @@ class Engine:
             instance = self.instance_of_annotation(module, function.node.returns)
             if instance is not UNKNOWN:
                 return instance
-        if callee.closure is not None:
-            done = self._baselines.get(id(function.node))
-            return done.value if done is not None else UNKNOWN
-        return self.baseline(function).value
+        return self._baseline_of(function, callee.closure).value
 
     def instance_of_annotation(self, module: ModuleSymbols, annotation) -> Any:
         """``p: Pipe`` where Pipe is a class of the checked code: an instance of it."""
