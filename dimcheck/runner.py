@@ -81,7 +81,8 @@ class Checker:
         self.options = declaration_options(self.config, self.table)
         self.scope: list[str] | None = None  # the paths given: modules outside are not read
 
-    def _keep(self, code: str, line_text: str) -> bool:
+    def keep(self, code: str, line_text: str) -> bool:
+        """Whether a finding is reported: its code selected and no suppression on its line."""
         return code in self.codes and not is_suppressed(code, line_text)
 
     def _open_cache(self) -> ResultCache | None:

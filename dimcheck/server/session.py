@@ -130,7 +130,7 @@ class Session:
             issues = []
             for located in engine.check_module(module):
                 code = located.problem.code
-                if not checker._keep(code, module.line_text(located.line)):
+                if not checker.keep(code, module.line_text(located.line)):
                     continue
                 start_line, end_line = located.line - 1, max(located.end_line, located.line) - 1
                 start = _char(lines, start_line, located.column)
