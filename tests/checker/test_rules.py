@@ -188,6 +188,7 @@ def test_fractional_powers_give_exact_dimensions():
 # -- DIM201 scale-mismatch, DIM202 angle-scale, DIM203 bare-number-in-sum ---------------------
 
 def test_scale_mismatch_and_conversions():
+    # NIST SP 811 (2008), Appendix B.8: inch = 2.54e-2 m (exact); mm = 1e-3 m (SI prefix)
     assert check("""\
         def f(d_mm: Annotated[float, "mm"], x_in: Annotated[float, "inch"]):
             a: Annotated[float, "m"] = d_mm
@@ -311,7 +312,7 @@ def test_offset_temperatures_follow_pint_semantics():
     # pint as the reference library: adding two degC quantities or multiplying one raises
     # OffsetUnitCalculusError; the difference of two is a temperature difference.
     assert check("""\
-        R = 8.314  # [J/(mol*K)]
+        R = 8.314  # [J/(mol*K)] molar gas constant, CODATA (scipy.constants.R), rounded
         def f(p: Annotated[float, "Pa"], v: Annotated[float, "m^3"], t_c: Annotated[float, "degC"],
               t2: Annotated[float, "degC"], t_k: Annotated[float, "K"]):
             n = p * v / (R * t_c)
@@ -351,7 +352,8 @@ def weight(m: Annotated[float, "kg"]) -> Annotated[float, "N"]:
 
 
 def test_degrees_times_pi_over_180_is_radians_and_other_factors_are_not():
-    # pi is a plain number (math.pi, np.pi): multiplying by pi/180 converts degrees to radians
+    # pi is a plain number (math.pi, np.pi): multiplying by pi/180 converts degrees to radians;
+    # 57.29577951308232 is 180/pi, degrees per radian (SI Brochure, 9th ed., Table 8)
     assert check("""\
         def f(angle: Annotated[float, "deg"]):
             a = np.tan(angle * math.pi / 180)
