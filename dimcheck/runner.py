@@ -145,6 +145,7 @@ class Checker:
         old_limit = sys.getrecursionlimit()
         sys.setrecursionlimit(max(old_limit, 10000))
         project = self.new_project()
+        project.max_resident_trees = RESIDENT_TREES
         engine = Engine(project, self.table)  # sizes its nesting budget from the limit above
         # Syntax trees make millions of objects and no reference cycles worth collecting:
         # with the cyclic collector on, parsing a large tree takes several times longer.
@@ -180,6 +181,10 @@ class Checker:
 # The command line sets this to a list: what a run built is then kept until the process
 # exits (without tearing it down), since freeing every syntax tree one by one takes seconds.
 KEEP_ALIVE: list | None = None
+
+# Syntax trees kept in memory during a batch run (the most recently used modules); the
+# others are parsed again when needed. Enough for a module and what it imports directly.
+RESIDENT_TREES = 64
 
 MIN_FILES_PER_JOB = 25  # below this, starting workers costs more than it saves
 

@@ -36,7 +36,8 @@ def _name_of(node: ast.AST) -> str | None:
     return None
 
 
-def _dotted(node: ast.AST) -> tuple[str, ...] | None:
+def dotted_name(node: ast.AST | None) -> tuple[str, ...] | None:
+    """``a.b.c`` as ``("a", "b", "c")``; None for anything but a (dotted) name."""
     parts: list[str] = []
     while isinstance(node, ast.Attribute):
         parts.append(node.attr)
@@ -89,7 +90,7 @@ def read_annotation(node: ast.AST | None, _depth: int = 0) -> UnitText | AliasRe
     if isinstance(node, ast.BinOp) and isinstance(node.op, ast.BitOr):
         return _first_of_union([node.left, node.right], _depth)
     if isinstance(node, (ast.Name, ast.Attribute)):
-        parts = _dotted(node)
+        parts = dotted_name(node)
         return AliasRef(parts) if parts else None
     return None
 

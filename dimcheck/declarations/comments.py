@@ -1,7 +1,7 @@
 """Units declared in trailing comments: ``g = 9.80665  # [m/s^2] standard gravity``.
 
-Only the stdlib tokenizer is used, so a ``#`` inside a string is never mistaken for a
-comment. A bracket is a declaration only when it opens the comment, is closed, is
+Strings are matched before comments (the same tokens the stdlib tokenizer reads), so a
+``#`` inside a string is never mistaken for a comment. A bracket is a declaration only when it opens the comment, is closed, is
 followed by whitespace or the end of the comment, and holds nothing a unit expression
 never uses (a comma, ``=``, quotes, ``...``): real code has many comments such as
 ``# [1]_ Eq. 4`` or ``# [3*(1-x)**2, ...]`` that are citations or code, not units.
@@ -9,9 +9,7 @@ never uses (a comma, ``=``, quotes, ``...``): real code has many comments such a
 
 from __future__ import annotations
 
-import io
 import re
-import tokenize
 from dataclasses import dataclass
 
 # Characters that never appear in a unit expression; a bracket holding one is prose.
@@ -47,13 +45,23 @@ def read_bracket(comment: str) -> tuple[str, int] | None:
     return content.strip(), offset
 
 
-_CANDIDATE_COMMENT = re.compile(r"#\s*\[[^\n]*")
+_CANDIDATE_COMMENT = re.compile(r"#\s*\[[^\n#]*")  # a unit never holds "#"
 
 
 def _has_candidate(source: str) -> bool:
     """A cheap text scan: is there any ``# [...]`` that would read as a unit? Only then
     is the file tokenized (which tells real comments from ``#`` inside strings)."""
     return any(read_bracket(match.group()) is not None for match in _CANDIDATE_COMMENT.finditer(source))
+
+
+# Strings and comments, in the order they appear: a ``#`` inside a string is matched as
+# part of the string, so every "comment" match is a real comment. This reads the same
+# tokens as the stdlib tokenizer for source that parses, in C rather than Python.
+_STRING_OR_COMMENT = re.compile(r"""
+    (?P<string>'\'\'(?:[^\\]|\\.)*?'\'\'|\"\"\"(?:[^\\]|\\.)*?\"\"\"
+        |'(?:[^\\'\n]|\\.)*'|"(?:[^\\"\n]|\\.)*")
+    |(?P<comment>\#[^\n]*)
+""", re.S | re.X)
 
 
 def trailing_comment_units(source: str) -> dict[int, CommentUnit]:
@@ -66,22 +74,18 @@ def trailing_comment_units(source: str) -> dict[int, CommentUnit]:
         return {}
     source = source.replace("\r\n", "\n").replace("\r", "\n")  # lone \r ends a line too
     found: dict[int, CommentUnit] = {}
-    code_on_line: set[int] = set()
-    try:
-        for token in tokenize.generate_tokens(io.StringIO(source).readline):
-            kind = token.type
-            if kind == tokenize.COMMENT:
-                line, col = token.start
-                if line not in code_on_line:
-                    continue
-                parsed = read_bracket(token.string)
-                if parsed is not None:
-                    text, offset = parsed
-                    found[line] = CommentUnit(line, col + offset + 1, text)
-            elif kind not in (tokenize.NL, tokenize.NEWLINE, tokenize.INDENT, tokenize.DEDENT,
-                              tokenize.ENCODING, tokenize.ENDMARKER):
-                for line in range(token.start[0], token.end[0] + 1):
-                    code_on_line.add(line)
-    except (tokenize.TokenError, SyntaxError, IndentationError):
-        pass  # the file parsed with ast already; keep what was read
+    line, line_start, counted = 1, 0, 0
+    for match in _STRING_OR_COMMENT.finditer(source):
+        if match.lastgroup != "comment":
+            continue
+        start = match.start()
+        line += source.count("\n", counted, start)
+        counted = start
+        line_start = source.rfind("\n", 0, start) + 1
+        if not source[line_start:start].strip():
+            continue  # nothing but the comment on its line
+        parsed = read_bracket(match.group())
+        if parsed is not None:
+            text, offset = parsed
+            found[line] = CommentUnit(line, start - line_start + offset + 1, text)
     return found

@@ -11,7 +11,7 @@ import ast
 import re
 from dataclasses import dataclass, field
 
-from .annotations import AliasRef, UnitText, read_annotation
+from .annotations import AliasRef, UnitText, dotted_name, read_annotation
 from .comments import CommentUnit
 
 UnitSpec = UnitText | AliasRef | None
@@ -25,6 +25,19 @@ class ParamInfo:
     default: ast.expr | None
     node: ast.arg
     positional_only: bool = False
+    # kept when the module releases its tree: the dotted name the annotation gives, if
+    # any (it may be a class, whose instance the parameter holds), and the function
+    annotated_name: tuple[str, ...] | None = field(init=False, default=None)
+    function: "FunctionInfo | None" = field(init=False, default=None)
+
+    def __post_init__(self) -> None:
+        self.annotated_name = dotted_name(getattr(self.node, "annotation", None))
+
+    def __getattr__(self, name: str):
+        if name != "node" or self.function is None:
+            raise AttributeError(name)
+        self.function.module.restore_tree()  # only reached after release_tree emptied the slot
+        return object.__getattribute__(self, "node")
 
 
 @dataclass(eq=False, slots=True)
@@ -38,6 +51,21 @@ class FunctionInfo:
     owner: "ClassInfo | None" = None
     decorators: frozenset[str] = frozenset()
     pint_wrapper: str | None = None  # "wraps" or "check": pint's decorators declare the units
+    # Kept apart from ``node``, which the module may release (see ModuleSymbols.release_tree):
+    # where the definition starts, and the dotted name its return annotation gives, if any.
+    where: tuple[int, int] = field(init=False, default=(0, 0))
+    lines: tuple[int, int] = field(init=False, default=(0, 0))  # first (decorators) and last
+    returns_name: tuple[str, ...] | None = field(init=False, default=None)
+
+    def __post_init__(self) -> None:
+        self.where = (self.node.lineno, self.node.col_offset)
+        self.lines = _line_span(self.node)
+        self.returns_name = dotted_name(getattr(self.node, "returns", None))
+        for param in self.params:
+            param.function = self
+
+    def __getattr__(self, name: str):
+        return _restored_node(self, name)
 
     @property
     def is_static(self) -> bool:
@@ -53,7 +81,7 @@ class FunctionInfo:
 
     @property
     def line(self) -> int:
-        return self.node.lineno
+        return self.where[0]
 
 
 @dataclass(eq=False, slots=True)
@@ -66,6 +94,29 @@ class ClassInfo:
     methods: dict[str, FunctionInfo] = field(default_factory=dict)
     fields: list[tuple[str, UnitSpec, ast.expr | None, ast.AST]] = field(default_factory=list)
     is_record: bool = False  # dataclass or NamedTuple: fields are the constructor's parameters
+    where: tuple[int, int] = field(init=False, default=(0, 0))
+    lines: tuple[int, int] = field(init=False, default=(0, 0))  # first (decorators) and last
+
+    def __post_init__(self) -> None:
+        self.where = (self.node.lineno, self.node.col_offset)
+        self.lines = _line_span(self.node)
+
+    def __getattr__(self, name: str):
+        return _restored_node(self, name)
+
+
+def _line_span(node) -> tuple[int, int]:
+    first = min([node.lineno, *(item.lineno for item in getattr(node, "decorator_list", ()))])
+    return first, getattr(node, "end_lineno", None) or node.lineno
+
+
+def _restored_node(info: "FunctionInfo | ClassInfo", name: str):
+    """Only reached for an empty slot: after ``release_tree`` the definition's ``node`` is
+    gone until its module parses its source again."""
+    if name != "node":
+        raise AttributeError(name)
+    info.module.restore_tree()
+    return object.__getattribute__(info, "node")
 
 
 @dataclass(frozen=True, slots=True)
@@ -103,8 +154,70 @@ class ModuleSymbols:
     pint_dynamic: bool | None = None  # defines pint units or contexts at run time (pint_support)
     # a docstring or a name pattern declares something here (the fast path must not skip it)
     declares_from_text: bool = False
+    # called with the module after ``restore_tree`` (the project counts resident trees)
+    on_restore: object = None
+    # reads the source again after a release (None: the source is kept, as for notebooks)
+    read_again: object = None
+    tree_released: bool = False
 
     _lines: list[str] | None = None
+
+    def __getattr__(self, name: str):
+        # only reached for an empty slot: see release_tree
+        if name == "tree":
+            self.restore_tree()
+            return object.__getattribute__(self, "tree")
+        if name == "source":
+            self.source = self.read_again(self.path)
+            return self.source
+        raise AttributeError(name)
+
+    def release_tree(self) -> None:
+        """Drop the syntax tree, the bulk of a module's memory, keeping what it declares.
+        Any later use of ``tree`` or of a definition's ``node`` parses the source again
+        (``restore_tree``), giving the same definitions their new nodes."""
+        if self.tree_released or self.is_stub:
+            return
+        for info in self.all_functions:
+            del info.node
+            for param in info.params:
+                del param.node
+                param.default = None  # read only when the module is first collected
+        for cls in self.classes.values():
+            del cls.node
+        del self.tree
+        if self.read_again is not None:
+            del self.source
+        self._lines = None
+        self.tree_released = True
+
+    def restore_tree(self) -> None:
+        if not self.tree_released:
+            return
+        try:
+            tree = ast.parse(self.source, filename=self.path)  # it parsed before: it parses again
+        except (SyntaxError, ValueError, RecursionError, MemoryError):
+            tree = ast.Module(body=[], type_ignores=[])  # the file changed during the run
+        definitions = {}
+        for stmt in _top_level_statements(tree.body):
+            if isinstance(stmt, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef)):
+                definitions[(stmt.lineno, stmt.col_offset)] = stmt
+            if isinstance(stmt, ast.ClassDef):
+                for item in stmt.body:
+                    if isinstance(item, (ast.FunctionDef, ast.AsyncFunctionDef)):
+                        definitions[(item.lineno, item.col_offset)] = item
+        for info in self.all_functions:
+            info.node = definitions.get(info.where) or _empty_function(info)
+            arguments = _all_arguments(info.node.args)
+            for index, param in enumerate(info.params):
+                param.node = arguments[index] if index < len(arguments) else ast.arg(param.name)
+        for cls in self.classes.values():
+            cls.node = definitions.get(cls.where) or ast.ClassDef(
+                cls.name, [], [], [], [], lineno=cls.where[0], col_offset=cls.where[1])
+        self.tree = tree
+        self.tree_released = False
+        if self.on_restore is not None:
+            self.on_restore(self)
 
     def line_text(self, line: int) -> str:
         if self._lines is None:  # the line breaks Python counts: not form feeds or U+2028
@@ -112,6 +225,14 @@ class ModuleSymbols:
         if 1 <= line <= len(self._lines):
             return self._lines[line - 1]
         return ""
+
+
+def _empty_function(info: FunctionInfo) -> ast.FunctionDef:
+    """A definition whose file changed during the run: no body to analyse."""
+    arguments = ast.arguments(posonlyargs=[], args=[], vararg=None, kwonlyargs=[], kw_defaults=[],
+                              kwarg=None, defaults=[])
+    return ast.FunctionDef(info.name, arguments, [], [], None, lineno=info.where[0],
+                           col_offset=info.where[1])
 
 
 def decorator_names(node) -> frozenset[str]:
@@ -182,12 +303,17 @@ def name_spec(module: "ModuleSymbols", name: str, line: int, column: int) -> Uni
     return spec
 
 
+def _all_arguments(args: ast.arguments) -> list[ast.arg]:
+    """Every parameter in the order ``read_parameters`` lists them."""
+    return args.posonlyargs + args.args + ([args.vararg] if args.vararg else []) + \
+        args.kwonlyargs + ([args.kwarg] if args.kwarg else [])
+
+
 def read_parameters(module: ModuleSymbols, node) -> list[ParamInfo]:
     args = node.args
     params: list[ParamInfo] = []
     multi_line = getattr(node, "end_lineno", node.lineno) != node.lineno
-    all_args = args.posonlyargs + args.args + ([args.vararg] if args.vararg else []) + \
-        args.kwonlyargs + ([args.kwarg] if args.kwarg else [])
+    all_args = _all_arguments(args)
     args_per_line: dict[int, int] = {}
     for arg in all_args:
         args_per_line[arg.lineno] = args_per_line.get(arg.lineno, 0) + 1

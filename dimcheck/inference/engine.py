@@ -95,9 +95,11 @@ class Engine:
         self.global_declaration = self.resolver.global_declaration
         self._module_envs: dict[str, dict] = {}
         self._module_problems: dict[str, list[Located]] = defaultdict(list)
-        self._baselines: dict[int, FunctionResult] = {}
-        self._in_baseline: set[int] = set()
+        # keyed by the FunctionInfo itself: its node may be released and parsed again
+        self._baselines: dict[FunctionInfo, FunctionResult] = {}
+        self._in_baseline: set[FunctionInfo] = set()
         self._call_results: dict[tuple, FunctionResult] = {}
+        self._parameter_declarations: dict[FunctionInfo, list] = {}
         self._in_call: set[tuple] = set()
         self._nested: dict[int, FunctionInfo] = {}
         self._constructors: dict[int, FunctionInfo] = {}
@@ -116,7 +118,8 @@ class Engine:
         if module.is_stub or not self.project.can_have_units(module):
             return env  # names then come from the declarations: functions, classes, imports
         evaluator = ScopeEvaluator(self, module, env)
-        evaluator.run(module.tree.body)
+        with self.project.pinned(module):
+            evaluator.run(module.tree.body)
         self._module_envs[module.path] = evaluator.env
         self._module_problems[module.path].extend(evaluator.problems)
         return evaluator.env
@@ -270,40 +273,39 @@ class Engine:
         return self._nested[key]
 
     def run_nested_baseline(self, info: FunctionInfo, enclosing: ScopeEvaluator) -> None:
-        key = id(info.node)
-        if key in self._baselines or key in self._in_baseline:
+        if info in self._baselines or info in self._in_baseline:
             return
         result = self._run_function(info, None, enclosing, baseline=True)
-        self._baselines[key] = result
+        self._baselines[info] = result
         enclosing.problems.extend(result.problems)
 
     def run_class_body(self, info: ClassInfo, enclosing: ScopeEvaluator) -> None:
         scope = ScopeEvaluator(self, info.module, {}, closure=enclosing)
-        scope.run([stmt for stmt in info.node.body
-                   if not isinstance(stmt, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef))])
+        with self.project.pinned(info.module):
+            scope.run([stmt for stmt in info.node.body
+                       if not isinstance(stmt, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef))])
         enclosing.problems.extend(scope.problems)
 
     def baseline(self, function: FunctionInfo) -> FunctionResult:
         """The function analysed once with its declared parameters (others unknown)."""
-        key = id(function.node)
-        result = self._baselines.get(key)
+        result = self._baselines.get(function)
         if result is not None:
             return result
-        if key in self._in_baseline:
+        if function in self._in_baseline:
             return FunctionResult(RECURSION)
-        self._in_baseline.add(key)
+        self._in_baseline.add(function)
         try:
             result = self._run_function(function, None, None, baseline=True)
         finally:
-            self._in_baseline.discard(key)
-        self._baselines[key] = result
+            self._in_baseline.discard(function)
+        self._baselines[function] = result
         return result
 
     def _baseline_of(self, function: FunctionInfo, closure: ScopeEvaluator | None) -> FunctionResult:
         """A function's baseline; a nested one has it only once its enclosing scope ran."""
         if closure is None:
             return self.baseline(function)
-        return self._baselines.get(id(function.node)) or FunctionResult(UNKNOWN)
+        return self._baselines.get(function) or FunctionResult(UNKNOWN)
 
     def _run_function(self, function: FunctionInfo, arguments: dict | None,
                       closure: ScopeEvaluator | None, baseline: bool) -> FunctionResult:
@@ -311,8 +313,7 @@ class Engine:
             return FunctionResult(UNKNOWN)
         scope = ScopeEvaluator(self, function.module, {}, function=function, closure=closure,
                                baseline=baseline)
-        for index, param in enumerate(function.params):
-            declared = self.declared(function.module, param.spec)
+        for index, (param, declared) in enumerate(zip(function.params, self.parameter_declarations(function))):
             if isinstance(declared, Quantity):
                 scope.env[param.name] = declared
                 scope.declared[param.name] = declared
@@ -322,16 +323,26 @@ class Engine:
                 owner = function.owner
                 scope.env[param.name] = ClassValue(owner) if function.is_classmethod else InstanceValue(owner)
             else:
-                scope.env[param.name] = self.instance_of_annotation(function.module, param.node.annotation)
-        if isinstance(function.node, ast.Lambda):
-            scope.returns.append(scope.expr(function.node.body))
-        else:
-            scope.run(function.node.body)
+                scope.env[param.name] = self.instance_of_annotation(function.module, param.annotated_name)
+        with self.project.pinned(function.module):
+            node = function.node
+            if isinstance(node, ast.Lambda):
+                scope.returns.append(scope.expr(node.body))
+            else:
+                scope.run(node.body)
         return FunctionResult(merge_returns(scope.returns), scope.problems)
+
+    def parameter_declarations(self, function: FunctionInfo) -> list:
+        """What each parameter declares (a Quantity, a GenericUnit or None), resolved once."""
+        found = self._parameter_declarations.get(function)
+        if found is None:
+            found = self._parameter_declarations[function] = [
+                self.declared(function.module, param.spec) for param in function.params]
+        return found
 
     def _call_site_result(self, function: FunctionInfo, arguments: dict,
                           closure: ScopeEvaluator | None) -> FunctionResult:
-        key = (id(function.node),) + tuple(_value_key(arguments.get(p.name)) for p in function.params)
+        key = (function,) + tuple(_value_key(arguments.get(p.name)) for p in function.params)
         cached = self._call_results.get(key)
         if cached is not None:
             return cached
@@ -377,7 +388,11 @@ class Engine:
         if key not in self._constructors:
             params = [ParamInfo(name, "positional", spec, default, stmt)
                       for name, spec, default, stmt in info.fields]
-            self._constructors[key] = FunctionInfo(info.name, info.name, info.node, info.module, params,
+            # a stand-in node where the class starts: holding the class's own node would keep
+            # its whole syntax tree alive after the module releases it
+            line, column = info.where
+            start = ast.Pass(lineno=line, col_offset=column, end_lineno=line, end_col_offset=column)
+            self._constructors[key] = FunctionInfo(info.name, info.name, start, info.module, params,
                                                    None, decorators=frozenset({"<record>"}))
         return self._constructors[key]
 
@@ -398,9 +413,9 @@ class Engine:
         bindings: dict[str, Any] = {}
         generic_members: dict[str, list] = defaultdict(list)
         arguments: dict[str, Any] = {}
-        for param in function.params:
+        declarations = self.parameter_declarations(function)
+        for param, declared in zip(function.params, declarations):
             supplied = bound.get(param.name, [])
-            declared = self.declared(module, param.spec)
             if isinstance(declared, Quantity):
                 for value, arg_node in supplied:
                     if arg_node is not None:
@@ -424,8 +439,7 @@ class Engine:
                     # the call is where the members are combined (max(h, t), np.where(c, h, t))
                     evaluator.report(node if node is not None else arg_node, checks.check_combination(
                         f"arguments of {function.name}()", first, value))
-        for param in function.params:  # generic templates such as "$X^2" checked after binding
-            declared = self.declared(module, param.spec)
+        for param, declared in zip(function.params, declarations):  # "$X^2": checked after binding
             if isinstance(declared, GenericUnit) and declared.single_variable is None:
                 expected = declared.evaluate(bindings, self.resolver.lookup_unit)
                 if expected is not None:
@@ -462,25 +476,19 @@ class Engine:
             return returned if isinstance(returned, Quantity) else outcome.value
         if isinstance(returned, Quantity):
             return returned
-        if getattr(function.node, "returns", None) is not None:
-            instance = self.instance_of_annotation(module, function.node.returns)
+        if function.returns_name is not None:
+            instance = self.instance_of_annotation(module, function.returns_name)
             if instance is not UNKNOWN:
                 return instance
         return self._baseline_of(function, callee.closure).value
 
-    def instance_of_annotation(self, module: ModuleSymbols, annotation) -> Any:
-        """``p: Pipe`` where Pipe is a class of the checked code: an instance of it."""
-        if not isinstance(annotation, (ast.Name, ast.Attribute)):
+    def instance_of_annotation(self, module: ModuleSymbols, name: tuple[str, ...] | None) -> Any:
+        """``p: Pipe`` (the annotation's dotted name) where Pipe is a class of the checked
+        code: an instance of it."""
+        if not name:
             return UNKNOWN
-        parts = []
-        node = annotation
-        while isinstance(node, ast.Attribute):
-            parts.append(node.attr)
-            node = node.value
-        if not isinstance(node, ast.Name):
-            return UNKNOWN
-        value = self.module_name_value(module, node.id)
-        for attr in reversed(parts):
+        value = self.module_name_value(module, name[0])
+        for attr in name[1:]:
             if not isinstance(value, ModuleValue):
                 return UNKNOWN
             value = self.attribute_value(value, attr, None)
@@ -503,6 +511,10 @@ class Engine:
     def check_module(self, module: ModuleSymbols) -> list[Located]:
         if not self.project.can_have_units(module):
             return []
+        with self.project.pinned(module):
+            return self._check_module(module)
+
+    def _check_module(self, module: ModuleSymbols) -> list[Located]:
         self.module_env(module)
         problems = list(self._module_problems[module.path])
         for function in module.all_functions:

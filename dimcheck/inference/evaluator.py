@@ -191,9 +191,9 @@ class ScopeEvaluator:
             self._block_depth -= 1
 
     def statement(self, node: ast.stmt) -> None:
-        handler = getattr(self, "_stmt_" + type(node).__name__, None)
+        handler = _handler(_STATEMENT_HANDLERS, "_stmt_", type(node))
         if handler is not None:
-            handler(node)
+            handler(self, node)
         else:
             self._visit_children(node)
 
@@ -473,12 +473,12 @@ class ScopeEvaluator:
             return UNKNOWN
         engine.depth += 1
         try:
-            handler = getattr(self, "_expr_" + type(node).__name__, None)
+            handler = _handler(_EXPRESSION_HANDLERS, "_expr_", type(node))
             if handler is None:
                 self._visit_children(node)
                 value = UNKNOWN
             else:
-                value = handler(node)
+                value = handler(self, node)
         finally:
             engine.depth -= 1
         if engine.observer is not None and self.baseline:
@@ -777,3 +777,16 @@ def choose(a: Any, b: Any) -> Any:
         return b
     return merge_values(a, b)
 
+
+
+# The method for each node type, looked up once per type rather than by name per node.
+_STATEMENT_HANDLERS: dict[type, object] = {}
+_EXPRESSION_HANDLERS: dict[type, object] = {}
+
+
+def _handler(table: dict[type, object], prefix: str, node_type: type):
+    try:
+        return table[node_type]
+    except KeyError:
+        found = table[node_type] = getattr(ScopeEvaluator, prefix + node_type.__name__, None)
+        return found

@@ -12,7 +12,7 @@ import io
 import os
 import re
 import tokenize
-from dataclasses import dataclass
+from collections import OrderedDict
 from pathlib import Path
 
 from ..declarations.comments import trailing_comment_units
@@ -25,6 +25,18 @@ SHIPPED_STUBS = Path(__file__).resolve().parent.parent / "stubs"
 # with none, importing nothing that has any, has only unknown values: it cannot produce
 # a finding, so the inference pass skips it (parsing it is still needed for DIM902).
 _MARKERS = re.compile(r"""Annotated\[[^\]\n]*,\s*(?:["']|[\w.]*Unit\()|\bUnit\(\s*["']""")
+
+
+# A unit written inside a definition: ``Annotated[float, "m"]`` or ``Unit("m")`` (the
+# text is captured, since "1" and the like declare nothing that could start a finding).
+_LOCAL_UNITS = re.compile(r"""Annotated\[[^\]\n]*,\s*(?:["']([^"'\n]*)["']|[\w.]*Unit\(\s*["']([^"'\n]*)["'])"""
+                          r"""|\bUnit\(\s*["']([^"'\n]*)["']""")
+_IDENTIFIER = re.compile(r"[A-Za-z_]\w*")
+
+
+def _has_marker(source: str) -> bool:
+    # the substring tests are many times faster than the pattern, which most files fail
+    return ("Annotated[" in source or "Unit(" in source) and _MARKERS.search(source) is not None
 
 
 # Unit texts that cannot start a finding anywhere: every value built from them is
@@ -121,12 +133,21 @@ def module_name_for(path: Path) -> tuple[str, Path, bool]:
     return ".".join(parts), folder, is_package
 
 
-@dataclass
 class LoadedModule:
-    symbols: ModuleSymbols | None
-    error: UnreadableFile | None = None
-    text: str | None = None  # the decoded source, when it could be read
-    notebook: object = None  # for a .ipynb file, its NotebookSource (maps lines to cells)
+    __slots__ = ("symbols", "error", "notebook", "_text")
+
+    def __init__(self, symbols: ModuleSymbols | None, error: UnreadableFile | None = None,
+                 text: str | None = None, notebook: object = None):
+        self.symbols = symbols
+        self.error = error
+        self.notebook = notebook  # for a .ipynb file, its NotebookSource (maps lines to cells)
+        self._text = None if symbols is not None else text
+
+    @property
+    def text(self) -> str | None:
+        """The decoded source, when it could be read (the module's own, which a release of
+        its tree may drop and read again)."""
+        return self.symbols.source if self.symbols is not None else self._text
 
 
 class Project:
@@ -145,8 +166,15 @@ class Project:
         self._coarse: dict[str, bool] = {}
         self._scopes: list[str] | None = None  # see limit_to
         self._candidates: dict[str, list[str]] = {}
+        self._bodies: dict[tuple[str, str], tuple[bool, frozenset[str]]] = {}  # see _body_summary
         # module path -> paths of the modules it was seen to use: what its result depends on
         self.dependencies: dict[str, set[str]] = {}
+        # Syntax trees are most of a run's memory. With a limit set, only that many modules
+        # keep theirs (the most recently used); the others release it and parse again if
+        # a node is needed. Modules being evaluated are pinned and never released.
+        self.max_resident_trees: int | None = None
+        self._resident: OrderedDict[str, ModuleSymbols] = OrderedDict()
+        self._pins: dict[str, int] = {}
 
     # -- stubs ------------------------------------------------------------------------
     def _index_stubs(self, folder: Path) -> None:
@@ -205,7 +233,32 @@ class Project:
         self._by_path[key] = loaded
         if self._by_name.get(name) is None:
             self._by_name[name] = key
+        if self.max_resident_trees is not None:
+            symbols.on_restore = self._admit
+            if notebook is None:
+                symbols.read_again = _read_again
+            self._admit(symbols)
         return loaded
+
+    # -- how many syntax trees stay in memory ---------------------------------------------
+    def _admit(self, module: ModuleSymbols) -> None:
+        self._resident[module.path] = module
+        self._resident.move_to_end(module.path)
+        excess = len(self._resident) - self.max_resident_trees
+        if excess <= 0:
+            return
+        for path in list(self._resident):
+            if excess <= 0:
+                break
+            if not self._pins.get(path):
+                module = self._resident.pop(path)
+                self._marked(module)  # read from the source, which the release drops
+                module.release_tree()
+                excess -= 1
+
+    def pinned(self, module: ModuleSymbols) -> "_Pin":
+        """``with project.pinned(module):`` keeps its tree while nodes of it are in use."""
+        return _Pin(self._pins, module.path)
 
     def find_module(self, name: str) -> ModuleSymbols | None:
         """A module by dotted name: a stub, a module already read, or a file under a root."""
@@ -218,7 +271,10 @@ class Project:
             key = self._by_name[name]
             if key is None:
                 return None
-            return self._by_path[key].symbols
+            symbols = self._by_path[key].symbols
+            if symbols is not None and symbols.path in self._resident:
+                self._resident.move_to_end(symbols.path)
+            return symbols
         relative = Path(*name.split("."))
         for root in list(self._roots):
             for candidate in (root / relative.with_suffix(".py"), root / relative / "__init__.py"):
@@ -301,7 +357,7 @@ class Project:
                 found = stub_has_units(module) or _is_pint(module)
             else:
                 found = (module.declares_from_text or _has_scaled_comment_unit(module)
-                         or _MARKERS.search(module.source) is not None)
+                         or _has_marker(module.source))
             self._marks[module.path] = found
         return found
 
@@ -407,16 +463,12 @@ class Project:
         documented function does not make every importer of its module worth analysing."""
         if not self._module_may_reach_units(module):
             return  # nothing the whole module can reach declares a unit: no need to look closer
-        top_level = module.functions.keys() | module.classes.keys() | module.globals_declared.keys() \
-            | module.imports.keys() | module.aliases.keys()
         specs = []
         if name in module.functions:
             functions = [module.functions[name]]
-            nodes = [functions[0].node]
         else:
             info = module.classes[name]
             functions = list(info.methods.values())
-            nodes = [info.node]
             specs = [spec for spec, _ in info.attributes.values()]
         for function in functions:
             specs += [function.return_spec, *(param.spec for param in function.params)]
@@ -427,20 +479,34 @@ class Project:
                     yield _UNIT_BEARING
                     return
                 used.add(successor[2])
-        for node in nodes:
-            first, last = node.lineno, node.end_lineno or node.lineno
-            if any(first <= line <= last and unit.text not in _PLAIN_DIMENSIONLESS
-                   for line, unit in module.comment_units.items()):
-                yield _UNIT_BEARING  # a local declaration in its body
-                return
-            for inner in ast.walk(node):
-                if isinstance(inner, ast.Name) and inner.id in top_level and inner.id != name:
-                    used.add(inner.id)
-                elif isinstance(inner, ast.AnnAssign) and isinstance(read_annotation(inner.annotation), UnitText):
-                    yield _UNIT_BEARING  # a local Annotated declaration
-                    return
-        for other in sorted(used):
+        declares_inside, names_used = self._body_summary(module, name)
+        if declares_inside:
+            yield _UNIT_BEARING  # a local declaration in its body
+            return
+        for other in sorted(used | names_used):
             yield ("name", module, other)
+
+    def _body_summary(self, module: ModuleSymbols, name: str) -> tuple[bool, frozenset[str]]:
+        """Whether a definition's lines declare a unit, and the module-level names they
+        mention. Read from the text, not the tree, which the module may have released: a
+        name seen only in a string or comment counts too, which only widens the analysis."""
+        key = (module.path, name)
+        found = self._bodies.get(key)
+        if found is not None:
+            return found
+        info = module.functions[name] if name in module.functions else module.classes[name]
+        first, last = info.lines
+        declares = any(first <= line <= last and unit.text not in _PLAIN_DIMENSIONLESS
+                       for line, unit in module.comment_units.items())
+        text = "\n".join(module.line_text(line) for line in range(first, last + 1))
+        declares = declares or any(
+            next(filter(None, match.groups()), "").strip() not in _PLAIN_DIMENSIONLESS
+            for match in _LOCAL_UNITS.finditer(text))
+        top_level = module.functions.keys() | module.classes.keys() | module.globals_declared.keys() \
+            | module.imports.keys() | module.aliases.keys()
+        used = frozenset(word for word in set(_IDENTIFIER.findall(text)) if word in top_level and word != name)
+        found = self._bodies[key] = (declares, used)
+        return found
 
     def _import_targets(self, module: ModuleSymbols, ref: ImportRef):
         base = self.resolve_import(module, ref)
@@ -464,6 +530,27 @@ class Project:
         prefix = package + "."
         return any(name.startswith(prefix) and stub_has_units(self.stub_module(name))
                    for name in self._stub_paths if self.stub_module(name) is not None)
+
+
+def _read_again(path: str) -> str:
+    """A released module's source, read again; a file gone since reads as empty."""
+    try:
+        return read_source(path)
+    except UnreadableFile:
+        return ""
+
+
+class _Pin:
+    __slots__ = ("pins", "path")
+
+    def __init__(self, pins: dict[str, int], path: str):
+        self.pins, self.path = pins, path
+
+    def __enter__(self) -> None:
+        self.pins[self.path] = self.pins.get(self.path, 0) + 1
+
+    def __exit__(self, *exc) -> None:
+        self.pins[self.path] -= 1
 
 
 _UNIT_BEARING = ("unit-bearing",)

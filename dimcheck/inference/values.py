@@ -77,14 +77,15 @@ class Quantity:
     ``None`` means the scale is open (a dimension-only declaration).
     """
 
-    __slots__ = ("dimension", "scales", "label", "derived", "origin", "offset", "tolerance", "pint")
+    __slots__ = ("dimension", "scales", "_label", "derived", "origin", "offset", "tolerance", "pint")
 
-    def __init__(self, dimension: Dimension, scales: tuple[float, ...] | None, label: str,
+    def __init__(self, dimension: Dimension, scales: tuple[float, ...] | None, label: "str | tuple",
                  derived: bool = False, origin: Origin | None = None, offset: bool = False,
                  tolerance: float = 0.0, pint: bool = False):
         self.dimension = dimension
         self.scales = scales
-        self.label = label
+        # a product's label is kept as (left, operator, right) until a message needs it
+        self._label = label
         self.derived = derived
         self.origin = origin
         self.offset = offset
@@ -102,6 +103,14 @@ class Quantity:
     def is_dimensionless(self) -> bool:
         return self.dimension.is_dimensionless
 
+    @property
+    def label(self) -> str:
+        label = self._label
+        if label.__class__ is tuple:
+            left, operator, right = label
+            label = self._label = compose_label(left.display_unit(), operator, right.display_unit())
+        return label
+
     def display_unit(self) -> str:
         """The unit as the user wrote it, or a coherent SI form for a derived value."""
         if self.derived and (self.scales is None or any(_close(s, 1.0) for s in self.scales)):
@@ -116,7 +125,9 @@ class Quantity:
         return Quantity(self.dimension, self.scales, label, True, None, self.offset, self.tolerance, self.pint)
 
     def replace(self, **changes) -> "Quantity":
-        fields = {name: getattr(self, name) for name in self.__slots__}
+        fields = {"dimension": self.dimension, "scales": self.scales, "label": self._label,
+                  "derived": self.derived, "origin": self.origin, "offset": self.offset,
+                  "tolerance": self.tolerance, "pint": self.pint}
         fields.update(changes)
         return Quantity(**fields)
 
@@ -252,13 +263,30 @@ def intersect_scales(a, b):
 def quantity_product(left: Quantity, right: Quantity, divide: bool) -> Quantity:
     dimension = left.dimension / right.dimension if divide else left.dimension * right.dimension
     scales = divide_scales(left.scales, right.scales) if divide else multiply_scales(left.scales, right.scales)
-    label = compose_label(left.display_unit(), "/" if divide else "*", right.display_unit())
+    label = (left, "/" if divide else "*", right)  # composed only if a message shows it
     return Quantity(dimension, scales, label, derived=True, tolerance=left.tolerance + right.tolerance,
                     pint=left.pint or right.pint)
 
 
 def exact_exponent(value: float) -> Fraction | None:
     """A literal exponent as an exact fraction (0.5 -> 1/2, 1/3 -> 1/3), or None."""
+    try:
+        return _EXPONENTS[value]  # a program uses the same few exponents over and over
+    except (KeyError, TypeError):
+        pass
+    found = _exact_exponent(value)
+    if len(_EXPONENTS) < 10_000:
+        try:
+            _EXPONENTS[value] = found
+        except TypeError:
+            pass
+    return found
+
+
+_EXPONENTS: dict[float, Fraction | None] = {}
+
+
+def _exact_exponent(value: float) -> Fraction | None:
     try:
         fraction = Fraction(value).limit_denominator(1000)
     except (OverflowError, ValueError, TypeError):

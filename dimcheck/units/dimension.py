@@ -63,7 +63,7 @@ class Dimension:
             return self
         if not self.exponents:
             return other
-        key = ("*", self.exponents, other.exponents)
+        key = ("*", self, other)  # hashes the cached hash, not the Fractions
         found = _RESULTS.get(key)
         if found is None:
             found = _remember(key, Dimension(self.exponents + other.exponents))
@@ -72,14 +72,14 @@ class Dimension:
     def __truediv__(self, other: "Dimension") -> "Dimension":
         if not other.exponents:
             return self
-        key = ("/", self.exponents, other.exponents)
+        key = ("/", self, other)
         found = _RESULTS.get(key)
         if found is None:
             found = _remember(key, Dimension(self.exponents + tuple((n, -p) for n, p in other.exponents)))
         return found
 
     def __pow__(self, power: Fraction | int) -> "Dimension":
-        key = ("**", self.exponents, power)
+        key = ("**", self, power)
         found = _RESULTS.get(key)
         if found is None:
             exponent = Fraction(power)
@@ -98,7 +98,8 @@ class Dimension:
 
     # -- identity ------------------------------------------------------------------
     def __eq__(self, other: object) -> bool:
-        return isinstance(other, Dimension) and self.exponents == other.exponents
+        return self is other or (isinstance(other, Dimension) and self._hash == other._hash
+                                 and self.exponents == other.exponents)
 
     def __hash__(self) -> int:
         return self._hash
