@@ -10,7 +10,10 @@ once never leave a half-written cache, and a cache that cannot be read is ignore
 
 from __future__ import annotations
 
-import hashlib
+try:  # the same function hashlib gives, without loading OpenSSL (megabytes of memory)
+    from _blake2 import blake2b
+except ImportError:  # pragma: no cover - a Python built without it
+    from hashlib import blake2b
 import json
 import os
 import tempfile
@@ -23,7 +26,7 @@ ABSENT = "absent"
 def content_hash(path: str) -> str:
     try:
         with open(path, "rb") as handle:
-            return hashlib.blake2b(handle.read(), digest_size=16).hexdigest()
+            return blake2b(handle.read(), digest_size=16).hexdigest()
     except OSError:
         return ABSENT
 
@@ -129,7 +132,7 @@ def cache_key(version: str, config, table_key: str, stub_dirs: list) -> str:
     """What, besides the files themselves, decides the findings."""
     from .inference.project import SHIPPED_STUBS
 
-    digest = hashlib.blake2b(digest_size=16)
+    digest = blake2b(digest_size=16)
     digest.update(f"{FORMAT}|{version}|{table_key}".encode())
     digest.update(json.dumps([config.docstring_units, config.suffix_units, sorted(config.name_units.items()),
                               config.base_dimensions], default=str).encode())

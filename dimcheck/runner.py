@@ -155,7 +155,10 @@ class Checker:
             results = [(path, self._file_findings(project, engine, path)) for path in paths]
         finally:
             sys.setrecursionlimit(old_limit)
-            if gc_was_enabled:
+            # The collector's first pass after a run scans every object the run made (a
+            # second or more on a large tree); a process that keeps them all until it exits
+            # (KEEP_ALIVE) has nothing for it to find.
+            if gc_was_enabled and KEEP_ALIVE is None:
                 gc.enable()
         for module, used in project.dependencies.items():
             dependencies.setdefault(module, set()).update(used)
@@ -184,7 +187,7 @@ KEEP_ALIVE: list | None = None
 
 # Syntax trees kept in memory during a batch run (the most recently used modules); the
 # others are parsed again when needed. Enough for a module and what it imports directly.
-RESIDENT_TREES = 64
+RESIDENT_TREES = 4
 
 MIN_FILES_PER_JOB = 25  # below this, starting workers costs more than it saves
 

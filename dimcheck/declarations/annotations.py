@@ -44,8 +44,12 @@ def dotted_name(node: ast.AST | None) -> tuple[str, ...] | None:
         node = node.value
     if isinstance(node, ast.Name):
         parts.append(node.id)
-        return tuple(reversed(parts))
+        found = tuple(reversed(parts))
+        return _DOTTED_NAMES.setdefault(found, found)  # one tuple per name: thousands repeat
     return None
+
+
+_DOTTED_NAMES: dict[tuple[str, ...], tuple[str, ...]] = {}
 
 
 def _unit_in_metadata(item: ast.AST) -> UnitText | None:

@@ -35,6 +35,9 @@ MAX_CALL_DEPTH = 6
 _ARRAY_ATTRIBUTES = {"T", "real", "imag", "flat", "mT"}
 
 
+_NO_PROBLEMS: list = []  # never appended to: results are read, or replaced whole
+
+
 @dataclass
 class FunctionResult:
     value: Any
@@ -330,7 +333,8 @@ class Engine:
                 scope.returns.append(scope.expr(node.body))
             else:
                 scope.run(node.body)
-        return FunctionResult(merge_returns(scope.returns), scope.problems)
+        # most functions have no problem: share one empty list rather than keep thousands
+        return FunctionResult(merge_returns(scope.returns), scope.problems or _NO_PROBLEMS)
 
     def parameter_declarations(self, function: FunctionInfo) -> list:
         """What each parameter declares (a Quantity, a GenericUnit or None), resolved once."""
@@ -355,7 +359,7 @@ class Engine:
         try:
             result = self._run_function(function, arguments, closure, baseline=False)
             known = {p.key for p in self._baseline_of(function, closure).problems}
-            result.problems = [p for p in result.problems if p.key not in known]
+            result.problems = [p for p in result.problems if p.key not in known] or _NO_PROBLEMS
         finally:
             self._in_call.discard(key)
             self._call_depth -= 1

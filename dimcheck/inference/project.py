@@ -166,6 +166,7 @@ class Project:
         self._coarse: dict[str, bool] = {}
         self._scopes: list[str] | None = None  # see limit_to
         self._candidates: dict[str, list[str]] = {}
+        self._absolute_paths: dict[str, str] = {}
         self._bodies: dict[tuple[str, str], tuple[bool, frozenset[str]]] = {}  # see _body_summary
         # module path -> paths of the modules it was seen to use: what its result depends on
         self.dependencies: dict[str, set[str]] = {}
@@ -314,12 +315,18 @@ class Project:
         """``find_module`` on behalf of a module, remembering that it depends on the result."""
         target = self.find_module(name)
         if requester is not None:
-            used = self.dependencies.setdefault(os.path.abspath(requester.path), set())
+            used = self.dependencies.setdefault(self._absolute(requester.path), set())
             if target is not None:
-                used.add(os.path.abspath(target.path))
+                used.add(self._absolute(target.path))
             elif not self.has_stub(name):  # a file appearing there changes things
                 used.update(path for path in self.candidate_paths(name) if self._within_scope(path))
         return target
+
+    def _absolute(self, path: str) -> str:
+        found = self._absolute_paths.get(path)
+        if found is None:
+            found = self._absolute_paths[path] = os.path.abspath(path)
+        return found
 
     def candidate_paths(self, name: str) -> list[str]:
         key = f"{name}|{len(self._roots)}"

@@ -13,7 +13,10 @@ kilogram dropped, first candidate wins. Pint warns about ambiguous names such as
 
 from __future__ import annotations
 
-import hashlib
+try:  # the same function hashlib gives, without loading OpenSSL (megabytes of memory)
+    from _blake2 import blake2b
+except ImportError:  # pragma: no cover - a Python built without it
+    from hashlib import blake2b
 import json
 import os
 from pathlib import Path
@@ -249,8 +252,8 @@ def _pint_version() -> str:
 
 
 def _table_key(contents: Sequence[bytes], extras: Sequence[str]) -> str:
-    digest = hashlib.sha256()
-    parts = [str(TABLE_FORMAT_VERSION), _pint_version(), *(hashlib.sha256(c).hexdigest() for c in contents), "|", *extras]
+    digest = blake2b()
+    parts = [str(TABLE_FORMAT_VERSION), _pint_version(), *(blake2b(c).hexdigest() for c in contents), "|", *extras]
     digest.update("\n".join(parts).encode())
     return digest.hexdigest()
 
