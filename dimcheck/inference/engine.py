@@ -322,11 +322,8 @@ class Engine:
                 scope.declared[param.name] = declared
             elif arguments is not None and param.name in arguments:
                 scope.env[param.name] = arguments[param.name]
-            elif index == 0 and function.owner is not None and not function.is_static:
-                owner = function.owner
-                scope.env[param.name] = ClassValue(owner) if function.is_classmethod else InstanceValue(owner)
             else:
-                scope.env[param.name] = self.instance_of_annotation(function.module, param.annotated_name)
+                scope.env[param.name] = self._undeclared_parameter(function, index, param)
         with self.project.pinned(function.module):
             node = function.node
             if isinstance(node, ast.Lambda):
@@ -343,6 +340,24 @@ class Engine:
             found = self._parameter_declarations[function] = [
                 self.declared(function.module, param.spec) for param in function.params]
         return found
+
+    def _undeclared_parameter(self, function: FunctionInfo, index: int, param: ParamInfo) -> Any:
+        """What a parameter without a unit holds in the baseline: ``self``/``cls``, an
+        instance of the class it is annotated with, or unknown."""
+        if index == 0 and function.owner is not None and not function.is_static:
+            owner = function.owner
+            return ClassValue(owner) if function.is_classmethod else InstanceValue(owner)
+        return self.instance_of_annotation(function.module, param.annotated_name)
+
+    def _same_as_baseline(self, function: FunctionInfo, arguments: dict) -> bool:
+        """Whether a call passes each parameter without a unit just what the baseline
+        assumed (``self`` of the method's own class, a ``duct: Duct`` instance): analysing
+        the body again would find nothing new."""
+        for index, param in enumerate(function.params):
+            if param.name in arguments and _value_key(arguments[param.name]) != _value_key(
+                    self._undeclared_parameter(function, index, param)):
+                return False
+        return True
 
     def _call_site_result(self, function: FunctionInfo, arguments: dict,
                           closure: ScopeEvaluator | None) -> FunctionResult:
@@ -472,6 +487,8 @@ class Engine:
                 return returned
             return UNKNOWN
         if any(_informative(value) for value in arguments.values()):
+            if callee.closure is None and self._same_as_baseline(function, arguments):
+                return returned if isinstance(returned, Quantity) else self.baseline(function).value
             outcome = self._call_site_result(function, arguments, callee.closure)
             if node is not None:
                 for located in outcome.problems:
