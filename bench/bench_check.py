@@ -9,10 +9,16 @@ floor, and pyflakes. The timings are:
       ``python -m pyflakes FILE...`` subprocess, which gives the whole-command time
   (c) ``python -m dimcheck check --no-cache --jobs 1 --format json FILE...`` as a
       subprocess, and, if dimcheck can be imported, the same command line run in this
-      process through its CLI entry point
+      process through its CLI entry point; then ``--jobs 2``, and a warm re-run (the
+      result cache filled by one run, nothing changed since)
   (d) a small annotated file of 20 lines: ``python -m dimcheck check FILE`` against
       ``python -m pyflakes FILE``. Each is the best of 5 wall-clock runs, and dimcheck's
       cache is warmed by one run first.
+  (e) peak memory (maximum resident set size) of the pyflakes and the one-job dimcheck
+      commands, read from the operating system for each child process.
+
+dimcheck's own modules are byte-compiled first, as ``pip install`` does, so that no run
+pays for compiling them.
 
 By default the files are the installed sources of scipy. ``--path`` chooses others. This
 is a script, not a test: timings depend on the machine, so nothing here asserts a limit.
@@ -124,9 +130,32 @@ def time_pyflakes_inprocess(files: list[Path]) -> int:
     return sum(api.checkPath(str(path), sink) for path in files)
 
 
-def run_command(cmd: list[str], cwd: Path, timeout: float) -> subprocess.CompletedProcess:
-    return subprocess.run(cmd, cwd=cwd, env=child_env(), capture_output=True, text=True,
-                          timeout=timeout)
+PEAK_KB: dict[str, int] = {}  # command label -> largest peak resident set seen, in KiB
+
+
+def run_command(cmd: list[str], cwd: Path, timeout: float, label: str | None = None
+                ) -> subprocess.CompletedProcess:
+    """Run a command; with a label, record the child's peak memory (Unix only)."""
+    if label is None or not hasattr(os, "wait4"):
+        return subprocess.run(cmd, cwd=cwd, env=child_env(), capture_output=True, text=True,
+                              timeout=timeout)
+    with tempfile.TemporaryFile() as out, tempfile.TemporaryFile() as err:
+        proc = subprocess.Popen(cmd, cwd=cwd, env=child_env(), stdout=out, stderr=err)
+        _, status, usage = os.wait4(proc.pid, 0)
+        proc.returncode = os.waitstatus_to_exitcode(status)
+        PEAK_KB[label] = max(PEAK_KB.get(label, 0), usage.ru_maxrss)  # KiB on Linux
+        out.seek(0)
+        err.seek(0)
+        return subprocess.CompletedProcess(cmd, proc.returncode, out.read().decode("utf-8", "replace"),
+                                           err.read().decode("utf-8", "replace"))
+
+
+def compile_dimcheck() -> None:
+    """Byte-compile the checkout's modules, as an install does (this machine may run with
+    PYTHONDONTWRITEBYTECODE, which would make every run compile them again)."""
+    import compileall
+
+    compileall.compile_dir(str(REPO / "dimcheck"), quiet=1)
 
 
 def load_dimcheck_main():
@@ -211,15 +240,16 @@ def main() -> int:
                 opts.repeat, lambda: time_pyflakes_inprocess(files))
             seconds["pyflakes_subprocess"], proc = best_of(
                 opts.repeat, lambda: run_command([py, "-m", "pyflakes", *file_args], work,
-                                                 opts.timeout))
+                                                 opts.timeout, label="pyflakes"))
         except ImportError:
             seconds["pyflakes_inprocess"] = seconds["pyflakes_subprocess"] = None
             notes.append("pyflakes is not installed: pip install pyflakes")
 
+        compile_dimcheck()
         dim_args = ["check", "--no-cache", "--jobs", "1", "--format", "json", *file_args]
         seconds["dimcheck_subprocess"], proc = best_of(
             opts.repeat, lambda: run_command([py, "-m", "dimcheck", *dim_args], work,
-                                             opts.timeout))
+                                             opts.timeout, label="dimcheck"))
         results["dimcheck_exit"] = proc.returncode
         if proc.returncode in (0, 1):
             try:
@@ -231,6 +261,14 @@ def main() -> int:
         else:
             notes.append(f"dimcheck exited {proc.returncode}: {proc.stderr.strip()[-300:]}")
             seconds["dimcheck_subprocess"] = None
+
+        two_jobs = ["check", "--no-cache", "--jobs", "2", "--format", "json", *file_args]
+        seconds["dimcheck_jobs2"], _ = best_of(
+            opts.repeat, lambda: run_command([py, "-m", "dimcheck", *two_jobs], work, opts.timeout))
+        cached = ["check", "--jobs", "1", "--format", "json", *file_args]
+        run_command([py, "-m", "dimcheck", *cached], work, opts.timeout)  # fills the cache
+        seconds["dimcheck_warm"], _ = best_of(
+            max(opts.repeat, 3), lambda: run_command([py, "-m", "dimcheck", *cached], work, opts.timeout))
 
         seconds["dimcheck_inprocess"] = None
         if not opts.skip_inprocess_dimcheck:
@@ -275,7 +313,13 @@ def main() -> int:
         "small: dimcheck/pyflakes":
             seconds["small_dimcheck"] / seconds["small_pyflakes"]
             if seconds["small_dimcheck"] and seconds["small_pyflakes"] else None,
+        "jobs 2 / jobs 1": seconds["dimcheck_jobs2"] / dim_sub if dim_sub else None,
+        "warm / cold": seconds["dimcheck_warm"] / dim_sub if dim_sub else None,
+        "peak memory: dimcheck/pyflakes":
+            PEAK_KB["dimcheck"] / PEAK_KB["pyflakes"] if PEAK_KB.get("dimcheck") and PEAK_KB.get("pyflakes")
+            else None,
     }
+    results["peak_memory_mb"] = {label: round(kb / 1024, 1) for label, kb in PEAK_KB.items()}
     results["seconds"] = seconds
     results["ratios"] = ratios
     results["notes"] = notes
@@ -299,6 +343,8 @@ def main() -> int:
         ("(b) python -m pyflakes, subprocess", "pyflakes_subprocess"),
         ("(c) dimcheck check --jobs 1, in-process", "dimcheck_inprocess"),
         ("(c) python -m dimcheck check --jobs 1", "dimcheck_subprocess"),
+        ("(c) python -m dimcheck check --jobs 2", "dimcheck_jobs2"),
+        ("(c) the same, warm (cache filled, no change)", "dimcheck_warm"),
         ("(d) 20-line file: python -m dimcheck (best 5)", "small_dimcheck"),
         ("(d) 20-line file: python -m pyflakes (best 5)", "small_pyflakes"),
     ]
@@ -308,6 +354,9 @@ def main() -> int:
     print(f"{'ratio (dimcheck time / other time)':48}")
     for label, value in ratios.items():
         print(f"{label:48} {ratio(value, 1.0):>10}")
+    print()
+    for label, megabytes in results["peak_memory_mb"].items():
+        print(f"{'(e) peak memory, ' + label + ' (MB)':48} {megabytes:10.1f}")
     for note in notes:
         print("note:", note)
     return 0

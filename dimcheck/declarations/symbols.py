@@ -154,6 +154,8 @@ class ModuleSymbols:
     pint_dynamic: bool | None = None  # defines pint units or contexts at run time (pint_support)
     # a docstring or a name pattern declares something here (the fast path must not skip it)
     declares_from_text: bool = False
+    # names that only a def or class statement binds (see definition_only_names)
+    definition_only: frozenset[str] | None = None
     # called with the module after ``restore_tree`` (the project counts resident trees)
     on_restore: object = None
     # reads the source again after a release (None: the source is kept, as for notebooks)
@@ -530,6 +532,32 @@ def _top_level_statements(body):
                 yield from _top_level_statements(handler.body)
         else:
             yield stmt
+
+
+def definition_only_names(module: ModuleSymbols) -> frozenset[str]:
+    """The module's functions and classes whose name no other statement binds: their value
+    is the definition itself, known without evaluating the module. Read once per module."""
+    if module.definition_only is None:
+        counts: dict[str, int] = {}
+        for stmt in _top_level_statements(module.tree.body):
+            if isinstance(stmt, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef)):
+                counts[stmt.name] = counts.get(stmt.name, 0) + 1
+                continue
+            for node in ast.walk(stmt):  # loops, with-blocks, walruses: anything that binds
+                if isinstance(node, ast.Name) and not isinstance(node.ctx, ast.Load):
+                    bound = [node.id]
+                elif isinstance(node, (ast.Import, ast.ImportFrom)):
+                    bound = [alias.asname or alias.name.split(".")[0] for alias in node.names]
+                elif isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef)):
+                    bound = [node.name]
+                else:
+                    continue
+                for name in bound:
+                    counts[name] = counts.get(name, 0) + 2
+        module.definition_only = frozenset(
+            name for name, count in counts.items()
+            if count == 1 and (name in module.functions or name in module.classes))
+    return module.definition_only
 
 
 def record_import(imports: dict[str, ImportRef], stmt: ast.Import | ast.ImportFrom) -> None:

@@ -17,7 +17,7 @@ from dataclasses import dataclass, field
 from typing import Any
 
 from ..declarations.symbols import (
-    ClassInfo, FunctionInfo, ImportRef, ModuleSymbols, ParamInfo, make_function,
+    ClassInfo, FunctionInfo, ImportRef, ModuleSymbols, ParamInfo, definition_only_names, make_function,
 )
 from ..rules import checks
 from ..rules.checks import Problem
@@ -128,6 +128,12 @@ class Engine:
         return evaluator.env
 
     def module_name_value(self, module: ModuleSymbols, name: str) -> Any:
+        if module.path not in self._module_envs and not module.is_stub \
+                and name in definition_only_names(module):
+            # a function or class only its definition binds: no need to evaluate the whole
+            # module (and, in turn, everything it imports) to know what the name holds
+            return FunctionValue(module.functions[name]) if name in module.functions \
+                else ClassValue(module.classes[name])
         env = self.module_env(module)
         if name in env:
             return env[name]

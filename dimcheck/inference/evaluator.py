@@ -522,6 +522,16 @@ class ScopeEvaluator:
         return value
 
     def binary(self, node: ast.AST, op: ast.operator, left: Any, right: Any, augmented: bool = False) -> Any:
+        # The common case first: two plain quantities, no pint, no offset temperature. It
+        # gives what the general path below gives, without its checks (none can apply).
+        if (left.__class__ is Quantity and right.__class__ is Quantity
+                and not (left.pint or right.pint or left.offset or right.offset)):
+            op_type = op.__class__
+            if op_type is ast.Mult or op_type is ast.Div:
+                return quantity_product(left, right, op_type is ast.Div)
+            if (op_type is ast.Add or op_type is ast.Sub) and left.scales == right.scales \
+                    and left.dimension == right.dimension:
+                return left
         if isinstance(op, (ast.Add, ast.Sub)):
             verb = "add" if isinstance(op, ast.Add) else "subtract"
             self.report(node, checks.check_combination(verb, left, right)

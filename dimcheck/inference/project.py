@@ -122,15 +122,29 @@ def module_name_for(path: Path) -> tuple[str, Path, bool]:
     """The dotted module name of a file, the folder imports are relative to, and is-package."""
     path = path.resolve()
     is_package = path.stem == "__init__"
-    parts = [] if is_package else [path.stem]
-    folder = path.parent
     if is_package:
-        parts.insert(0, folder.name)
-        folder = folder.parent
-    while (folder / "__init__.py").exists() and folder.parent != folder:
-        parts.insert(0, folder.name)
-        folder = folder.parent
-    return ".".join(parts), folder, is_package
+        package, root = _package_of(path.parent.parent)
+        return ".".join([*package, path.parent.name]), root, True
+    package, root = _package_of(path.parent)
+    return ".".join([*package, path.stem]), root, False
+
+
+_PACKAGES: dict[Path, tuple[tuple[str, ...], Path]] = {}
+
+
+def _package_of(folder: Path) -> tuple[tuple[str, ...], Path]:
+    """The package names leading to a folder (empty outside a package) and the folder
+    above the outermost package; remembered per folder, since every file asks."""
+    found = _PACKAGES.get(folder)
+    if found is None:
+        if (folder / "__init__.py").exists() and folder.parent != folder:
+            outer, root = _package_of(folder.parent)
+            found = ((*outer, folder.name), root)
+        else:
+            found = ((), folder)
+        if len(_PACKAGES) < 100_000:
+            _PACKAGES[folder] = found
+    return found
 
 
 class LoadedModule:
@@ -153,6 +167,7 @@ class LoadedModule:
 class Project:
     def __init__(self, stub_dirs: list[Path] | tuple = (), options: DeclarationOptions | None = None):
         self.options = options
+        _PACKAGES.clear()  # a new view of the disk: packages may have changed since the last
         self._by_path: dict[str, LoadedModule] = {}
         self._by_name: dict[str, str] = {}
         self._roots: list[Path] = []
@@ -303,7 +318,11 @@ class Project:
                 continue
             top = name.split(".")[0] if "." in name or os.path.basename(full) == "__init__.py" else ""
             scopes.append(os.path.join(str(root), top) if top else os.path.dirname(full))
-        self._scopes = [scope.rstrip(os.sep) + os.sep for scope in scopes]
+        # Many files of one package share a scope (a pre-commit hook passes each file):
+        # keep each folder once, and none that lies inside another.
+        unique = sorted({scope.rstrip(os.sep) + os.sep for scope in scopes})
+        self._scopes = [scope for index, scope in enumerate(unique)
+                        if not any(scope.startswith(outer) for outer in unique[:index])]
 
     def _within_scope(self, path: str) -> bool:
         if self._scopes is None:
