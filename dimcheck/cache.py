@@ -17,10 +17,15 @@ except ImportError:  # pragma: no cover - a Python built without it
 import json
 import os
 import tempfile
+import time
 from pathlib import Path
 
-FORMAT = 1
+FORMAT = 2
 ABSENT = "absent"
+# A file whose size and modification time are what they were when recorded is taken as
+# unchanged without reading it, if it had not been touched for this long before the
+# cache was saved (a file written twice within the clock's resolution can keep both).
+STABLE_NS = 2_000_000_000
 
 
 def content_hash(path: str) -> str:
@@ -29,6 +34,15 @@ def content_hash(path: str) -> str:
             return blake2b(handle.read(), digest_size=16).hexdigest()
     except OSError:
         return ABSENT
+
+
+def _stat(path: str) -> list[int] | None:
+    """``[modification time in ns, size]``, as the cache stores it (JSON has no tuples)."""
+    try:
+        stat = os.stat(path)
+    except OSError:
+        return None
+    return [stat.st_mtime_ns, stat.st_size]
 
 
 class ResultCache:
@@ -44,6 +58,7 @@ class ResultCache:
         self._hashes: dict[str, str] = {}
         self._stale: set[str] | None = None
         self._dirty = False
+        self._saved_ns = 0  # when the loaded cache was written
         self._load()
 
     def _load(self) -> None:
@@ -54,12 +69,25 @@ class ResultCache:
         if (isinstance(data, dict) and data.get("format") == FORMAT and data.get("key") == self.key
                 and isinstance(data.get("modules"), dict) and isinstance(data.get("findings"), dict)):
             self.modules, self.findings = data["modules"], data["findings"]
+            saved = data.get("saved_ns")
+            self._saved_ns = saved if isinstance(saved, int) else 0
 
     def hash_of(self, path: str) -> str:
         digest = self._hashes.get(path)
         if digest is None:
             digest = self._hashes[path] = content_hash(path)
         return digest
+
+    def _unchanged(self, module: str, entry: dict) -> bool:
+        recorded = entry.get("stat")
+        if recorded is not None:
+            stat = _stat(module)
+            if stat is not None and recorded == stat and stat[0] < self._saved_ns - STABLE_NS:
+                return True  # same size and time, stable before the cache was written
+        return entry.get("hash") == self.hash_of(module)
+
+    def _entry(self, module: str, used) -> dict:
+        return {"hash": self.hash_of(module), "stat": _stat(module), "deps": sorted(used)}
 
     def _stale_set(self) -> set[str]:
         """Modules whose content changed, and every module that uses one, however indirectly."""
@@ -68,7 +96,7 @@ class ResultCache:
         users: dict[str, list[str]] = {}
         changed: list[str] = []
         for module, entry in self.modules.items():
-            if not isinstance(entry, dict) or entry.get("hash") != self.hash_of(module):
+            if not isinstance(entry, dict) or not self._unchanged(module, entry):
                 changed.append(module)
                 continue
             for used in entry.get("deps", ()):
@@ -101,18 +129,18 @@ class ResultCache:
     def record_graph(self, dependencies: dict[str, set[str]], checked: list[str]) -> None:
         """The module graph as the project saw it this run: each module's hash and uses."""
         for module in [os.path.abspath(path) for path in checked]:
-            self.modules[module] = {"hash": self.hash_of(module), "deps": sorted(dependencies.get(module, ()))}
+            self.modules[module] = self._entry(module, dependencies.get(module, ()))
         for module, used in dependencies.items():
-            self.modules[module] = {"hash": self.hash_of(module), "deps": sorted(used)}
+            self.modules[module] = self._entry(module, used)
             for target in used:
                 if target not in self.modules and self.hash_of(target) != ABSENT:
-                    self.modules[target] = {"hash": self.hash_of(target),
-                                            "deps": sorted(dependencies.get(target, ()))}
+                    self.modules[target] = self._entry(target, dependencies.get(target, ()))
 
     def save(self) -> None:
         if not self._dirty:
             return
-        data = {"format": FORMAT, "key": self.key, "modules": self.modules, "findings": self.findings}
+        data = {"format": FORMAT, "key": self.key, "saved_ns": time.time_ns(), "modules": self.modules,
+                "findings": self.findings}
         temporary = None
         try:
             self.path.parent.mkdir(parents=True, exist_ok=True)
@@ -130,8 +158,6 @@ class ResultCache:
 
 def cache_key(version: str, config, table_key: str, stub_dirs: list) -> str:
     """What, besides the files themselves, decides the findings."""
-    from .inference.project import SHIPPED_STUBS
-
     digest = blake2b(digest_size=16)
     digest.update(f"{FORMAT}|{version}|{table_key}".encode())
     digest.update(json.dumps([config.docstring_units, config.suffix_units, sorted(config.name_units.items()),
@@ -140,7 +166,7 @@ def cache_key(version: str, config, table_key: str, stub_dirs: list) -> str:
     for source in sorted(package.rglob("*.py")):  # a changed dimcheck must not reuse old results
         stat = source.stat()
         digest.update(f"{source}:{stat.st_mtime_ns}:{stat.st_size}".encode())
-    for folder in [SHIPPED_STUBS, *stub_dirs]:
+    for folder in [package / "stubs", *stub_dirs]:  # the shipped stubs, then the user's
         for stub in sorted(Path(folder).rglob("*.pyi")):
             digest.update(str(stub).encode())
             digest.update(content_hash(str(stub)).encode())

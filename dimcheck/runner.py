@@ -13,12 +13,8 @@ from dataclasses import dataclass, field
 
 from .cache import ResultCache, cache_key, default_folder
 from .cli.config import Config, ConfigError
-from .declarations.symbols import DeclarationOptions
 from .cli.discovery import discover
 from .declarations.suppressions import is_suppressed, skips_file
-from .inference.engine import Engine
-from .inference.evaluator import Located
-from .inference.project import Project
 from .rules.finding import Finding
 from .rules.registry import RULES, SEVERITY_RANK
 from .units import UnitError, load_unit_table
@@ -78,8 +74,17 @@ class Checker:
             where = f"{self.config.source}: [tool.dimcheck] units" if self.config.source else "units"
             raise ConfigError(f"{where}: {error}") from None
         self.use_cache = use_cache
-        self.options = declaration_options(self.config, self.table)
+        validate_name_units(self.config, self.table)
+        self._options = None
         self.scope: list[str] | None = None  # the paths given: modules outside are not read
+
+    @property
+    def options(self):
+        """Where declarations come from (DeclarationOptions); built on first use, so that a
+        run answered entirely from the cache never imports the inference modules."""
+        if self._options is None:
+            self._options = declaration_options(self.config, self.table)
+        return self._options
 
     def keep(self, code: str, line_text: str) -> bool:
         """Whether a finding is reported: its code selected and no suppression on its line."""
@@ -93,6 +98,8 @@ class Checker:
         return ResultCache(default_folder(self.config), key)
 
     def new_project(self) -> Project:
+        from .inference.project import Project
+
         project = Project(self.config.stubs, self.options)
         if self.scope:
             project.limit_to(self.scope)
@@ -127,6 +134,8 @@ class Checker:
 
     def _compute(self, paths: list[str], jobs: int, dependencies: dict) -> list[tuple[str, list]]:
         chunks = split_work(paths, jobs)
+        if not chunks:
+            return []  # everything came from the cache: the inference modules stay unloaded
         if len(chunks) <= 1:
             return self.compute_chunk(paths, dependencies)
         import multiprocessing
@@ -142,6 +151,8 @@ class Checker:
         return results
 
     def compute_chunk(self, paths: list[str], dependencies: dict) -> list[tuple[str, list]]:
+        from .inference.engine import Engine
+
         old_limit = sys.getrecursionlimit()
         sys.setrecursionlimit(max(old_limit, 10000))
         project = self.new_project()
@@ -238,11 +249,10 @@ def _worker_check(paths: list[str]):
     return _WORKER.compute_chunk(paths, dependencies), dependencies
 
 
-def declaration_options(config: Config, table) -> DeclarationOptions:
-    """Docstring and name-pattern sources, as configured; a bad unit in the name table is a
-    configuration error (exit 2) rather than a finding on every name it would match."""
-    from .declarations.names import NameUnits
-    from .units import UnitError, parse_unit
+def validate_name_units(config: Config, table) -> None:
+    """A bad unit in the name table is a configuration error (exit 2) rather than a
+    finding on every name it would match."""
+    from .units import parse_unit
 
     for pattern, unit in config.name_units.items():
         try:
@@ -250,6 +260,14 @@ def declaration_options(config: Config, table) -> DeclarationOptions:
         except UnitError as error:
             where = config.source or "configuration"
             raise ConfigError(f"{where}: [tool.dimcheck.name-units] {pattern!r}: {error}") from None
+
+
+def declaration_options(config: Config, table) -> "DeclarationOptions":
+    """Docstring and name-pattern sources, as configured."""
+    from .declarations.names import NameUnits
+    from .declarations.symbols import DeclarationOptions
+    from .units import parse_unit
+
     names = NameUnits(config.name_units, config.suffix_units)
 
     def is_unit(text: str) -> bool:

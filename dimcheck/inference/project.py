@@ -266,10 +266,10 @@ class Project:
         for path in list(self._resident):
             if excess <= 0:
                 break
-            if not self._pins.get(path):
-                module = self._resident.pop(path)
-                self._marked(module)  # read from the source, which the release drops
-                module.release_tree()
+            if not self._pins.get(path) and path != module.path:  # never the one coming in
+                released = self._resident.pop(path)
+                self._marked(released)  # read from the source, which the release drops
+                released.release_tree()
                 excess -= 1
 
     def pinned(self, module: ModuleSymbols) -> "_Pin":

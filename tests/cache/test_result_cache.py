@@ -112,3 +112,33 @@ def test_parallel_jobs_give_the_same_report_in_the_same_order(tmp_path):
                          cwd=tmp_path, capture_output=True, text=True, timeout=300)
     assert one.returncode == two.returncode == 1
     assert one.stdout == two.stdout and one.stdout.count("DIM101") == 12
+
+
+def _age(path: Path, seconds: float) -> None:
+    import os
+    import time
+
+    then = time.time() - seconds
+    os.utime(path, (then, then))
+
+
+def test_files_stable_since_the_last_run_are_not_read_again(tree, monkeypatch):
+    # Size and modification time unchanged, and old when the cache was written: trusted
+    # without reading the file. A file just written is always read and hashed.
+    from dimcheck import cache as cache_module
+
+    for name in ("units.py", "use.py"):
+        _age(tree / name, 60)
+    assert check(tree) == [("use.py", 3, "DIM101")]
+    key = json.loads((tree / ".dimcheck_cache" / "results.json").read_text())["key"]
+    read = []
+    real_hash = cache_module.content_hash
+    monkeypatch.setattr(cache_module, "content_hash", lambda path: read.append(path) or real_hash(path))
+    cached = cache_module.ResultCache(tree / ".dimcheck_cache", key)
+    assert cached.lookup(str(tree / "use.py"))[0][4] == "DIM101"
+    assert not {str(tree / "units.py"), str(tree / "use.py")} & set(read)  # both were stable
+
+    (tree / "use.py").write_text(USE.replace("h + t", "t + h"))  # same size, new time
+    fresh = cache_module.ResultCache(tree / ".dimcheck_cache", key)
+    assert fresh.lookup(str(tree / "use.py")) is None
+    assert str(tree / "use.py") in read
