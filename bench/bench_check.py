@@ -191,7 +191,7 @@ def fmt(seconds: float | None) -> str:
 
 
 def ratio(a: float | None, b: float | None) -> str:
-    return "n/a" if not a or not b else f"{a / b:8.1f}x"
+    return "n/a" if not a or not b else f"{a / b:8.2f}x"
 
 
 def main() -> int:

@@ -12,12 +12,27 @@ import ast
 from dataclasses import dataclass
 
 
+class SourceSpan:
+    """Where a piece of source stands: a syntax node's position attributes without the
+    node, which a declaration would otherwise keep alive (and its module's tree with it)."""
+
+    __slots__ = ("lineno", "col_offset", "end_lineno", "end_col_offset")
+
+    def __init__(self, node: ast.AST):
+        self.lineno = node.lineno
+        self.col_offset = node.col_offset
+        self.end_lineno = getattr(node, "end_lineno", None)
+        self.end_col_offset = getattr(node, "end_col_offset", None)
+
+
 @dataclass(frozen=True, slots=True)
 class UnitText:
     """A unit expression written in source, with where it stands."""
 
     text: str
-    node: ast.AST  # the string literal, for the location of a DIM901
+    # the string literal's position (for a DIM901), or a DeclarationSite for a unit read
+    # from a comment, a docstring or a name
+    node: "SourceSpan | ast.AST"
     quantity_type: bool = False  # Annotated[pint.Quantity, "m"]: the value is a pint quantity
 
 
@@ -50,14 +65,15 @@ def dotted_name(node: ast.AST | None) -> tuple[str, ...] | None:
 
 
 _DOTTED_NAMES: dict[tuple[str, ...], tuple[str, ...]] = {}
+_ALIASES: dict[tuple[str, ...], "AliasRef"] = {}
 
 
 def _unit_in_metadata(item: ast.AST) -> UnitText | None:
     if isinstance(item, ast.Constant) and isinstance(item.value, str):
-        return UnitText(item.value, item)
+        return UnitText(item.value, SourceSpan(item))
     if (isinstance(item, ast.Call) and _name_of(item.func) == "Unit" and item.args
             and isinstance(item.args[0], ast.Constant) and isinstance(item.args[0].value, str)):
-        return UnitText(item.args[0].value, item.args[0])
+        return UnitText(item.args[0].value, SourceSpan(item.args[0]))
     return None
 
 
@@ -95,7 +111,12 @@ def read_annotation(node: ast.AST | None, _depth: int = 0) -> UnitText | AliasRe
         return _first_of_union([node.left, node.right], _depth)
     if isinstance(node, (ast.Name, ast.Attribute)):
         parts = dotted_name(node)
-        return AliasRef(parts) if parts else None
+        if not parts:
+            return None
+        found = _ALIASES.get(parts)
+        if found is None:
+            found = _ALIASES[parts] = AliasRef(parts)  # one object per name: thousands repeat
+        return found
     return None
 
 

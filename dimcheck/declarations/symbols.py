@@ -11,7 +11,7 @@ import ast
 import re
 from dataclasses import dataclass, field
 
-from .annotations import AliasRef, UnitText, dotted_name, read_annotation
+from .annotations import AliasRef, SourceSpan, UnitText, dotted_name, read_annotation
 from .comments import CommentUnit
 
 UnitSpec = UnitText | AliasRef | None
@@ -53,13 +53,12 @@ class FunctionInfo:
     pint_wrapper: str | None = None  # "wraps" or "check": pint's decorators declare the units
     # Kept apart from ``node``, which the module may release (see ModuleSymbols.release_tree):
     # where the definition starts, and the dotted name its return annotation gives, if any.
-    where: tuple[int, int] = field(init=False, default=(0, 0))
-    lines: tuple[int, int] = field(init=False, default=(0, 0))  # first (decorators) and last
+    # (line, column) of the definition, then its first (decorators) and last lines
+    position: tuple[int, int, int, int] = field(init=False, default=(0, 0, 0, 0))
     returns_name: tuple[str, ...] | None = field(init=False, default=None)
 
     def __post_init__(self) -> None:
-        self.where = (self.node.lineno, self.node.col_offset)
-        self.lines = _line_span(self.node)
+        self.position = _position(self.node)
         self.returns_name = dotted_name(getattr(self.node, "returns", None))
         for param in self.params:
             param.function = self
@@ -81,7 +80,10 @@ class FunctionInfo:
 
     @property
     def line(self) -> int:
-        return self.where[0]
+        return self.position[0]
+
+    where = property(lambda self: self.position[:2])  # (line, column): finds it after a release
+    lines = property(lambda self: self.position[2:])  # first (decorators) and last line
 
 
 @dataclass(eq=False, slots=True)
@@ -90,24 +92,26 @@ class ClassInfo:
     node: ast.ClassDef
     module: "ModuleSymbols"
     base_nodes: list[ast.expr]
-    attributes: dict[str, tuple[UnitSpec, ast.AST]] = field(default_factory=dict)
+    attributes: dict[str, tuple[UnitSpec, SourceSpan]] = field(default_factory=dict)
     methods: dict[str, FunctionInfo] = field(default_factory=dict)
-    fields: list[tuple[str, UnitSpec, ast.expr | None, ast.AST]] = field(default_factory=list)
+    fields: list[tuple[str, UnitSpec, ast.expr | None, SourceSpan]] = field(default_factory=list)
     is_record: bool = False  # dataclass or NamedTuple: fields are the constructor's parameters
-    where: tuple[int, int] = field(init=False, default=(0, 0))
-    lines: tuple[int, int] = field(init=False, default=(0, 0))  # first (decorators) and last
+    # (line, column) of the definition, then its first (decorators) and last lines
+    position: tuple[int, int, int, int] = field(init=False, default=(0, 0, 0, 0))
 
     def __post_init__(self) -> None:
-        self.where = (self.node.lineno, self.node.col_offset)
-        self.lines = _line_span(self.node)
+        self.position = _position(self.node)
 
     def __getattr__(self, name: str):
         return _restored_node(self, name)
 
+    where = property(lambda self: self.position[:2])
+    lines = property(lambda self: self.position[2:])
 
-def _line_span(node) -> tuple[int, int]:
+
+def _position(node) -> tuple[int, int, int, int]:
     first = min([node.lineno, *(item.lineno for item in getattr(node, "decorator_list", ()))])
-    return first, getattr(node, "end_lineno", None) or node.lineno
+    return node.lineno, node.col_offset, first, getattr(node, "end_lineno", None) or node.lineno
 
 
 def _restored_node(info: "FunctionInfo | ClassInfo", name: str):
@@ -140,7 +144,7 @@ class ModuleSymbols:
     functions: dict[str, FunctionInfo] = field(default_factory=dict)
     classes: dict[str, ClassInfo] = field(default_factory=dict)
     aliases: dict[str, UnitText | AliasRef] = field(default_factory=dict)
-    globals_declared: dict[str, tuple[UnitSpec, ast.AST]] = field(default_factory=dict)
+    globals_declared: dict[str, tuple[UnitSpec, SourceSpan]] = field(default_factory=dict)
     imports: dict[str, ImportRef] = field(default_factory=dict)
     # every function and method, for the baseline pass; nested ones are found on the way
     all_functions: list[FunctionInfo] = field(default_factory=list)
@@ -178,7 +182,7 @@ class ModuleSymbols:
         """Drop the syntax tree, the bulk of a module's memory, keeping what it declares.
         Any later use of ``tree`` or of a definition's ``node`` parses the source again
         (``restore_tree``), giving the same definitions their new nodes."""
-        if self.tree_released or self.is_stub:
+        if self.tree_released:
             return
         for info in self.all_functions:
             del info.node
@@ -245,7 +249,10 @@ def decorator_names(node) -> frozenset[str]:
             names.add(target.id)
         elif isinstance(target, ast.Attribute):
             names.add(target.attr)
-    return frozenset(names)
+    return frozenset(names) if names else _NO_DECORATORS  # an empty frozenset is 216 bytes
+
+
+_NO_DECORATORS: frozenset[str] = frozenset()
 
 
 def comment_spec(module: ModuleSymbols, first_line: int, last_line: int) -> UnitText | None:
@@ -395,7 +402,7 @@ def _read_pint_decorators(info: FunctionInfo, node) -> None:
                 continue
             _assign_pint_units(info, taken, quantity_type=False)
             if len(returned) == 1 and returned[0].value is not None and info.return_spec is None:
-                info.return_spec = UnitText(_pint_unit_text(returned[0].value), returned[0])
+                info.return_spec = UnitText(_pint_unit_text(returned[0].value), SourceSpan(returned[0]))
             info.pint_wrapper = "wraps"
         elif kind == "check" and decorator.args and all(
                 isinstance(arg, ast.Constant) and (arg.value is None or
@@ -409,7 +416,7 @@ def _assign_pint_units(info: FunctionInfo, units: list, quantity_type: bool) -> 
     positional = [param for param in info.params if param.kind == "positional"]
     for param, unit in zip(positional, units):
         if unit is not None and unit.value is not None and param.spec is None:
-            param.spec = UnitText(_pint_unit_text(unit.value), unit, quantity_type=quantity_type)
+            param.spec = UnitText(_pint_unit_text(unit.value), SourceSpan(unit), quantity_type=quantity_type)
 
 
 def _returns_tuple(node) -> bool:
@@ -484,7 +491,7 @@ def _self_attribute_declarations(cls: ClassInfo, method: ast.FunctionDef, module
         for target in targets:
             if (isinstance(target, ast.Attribute) and isinstance(target.value, ast.Name)
                     and target.value.id == self_name and target.attr not in cls.attributes):
-                cls.attributes[target.attr] = (spec, stmt)
+                cls.attributes[target.attr] = (spec, SourceSpan(stmt))
 
 
 def read_class(module: ModuleSymbols, node: ast.ClassDef, qualname: str) -> ClassInfo:
@@ -494,15 +501,15 @@ def read_class(module: ModuleSymbols, node: ast.ClassDef, qualname: str) -> Clas
             spec = read_annotation(stmt.annotation)
             if spec is None:
                 spec = comment_spec(module, stmt.lineno, stmt.end_lineno or stmt.lineno)
-            cls.attributes[stmt.target.id] = (spec, stmt)
+            cls.attributes[stmt.target.id] = (spec, SourceSpan(stmt))
             if not _is_classvar(stmt.annotation):
-                cls.fields.append((stmt.target.id, spec, stmt.value, stmt))
+                cls.fields.append((stmt.target.id, spec, stmt.value, SourceSpan(stmt)))
         elif isinstance(stmt, ast.Assign):
             spec = comment_spec(module, stmt.lineno, stmt.end_lineno or stmt.lineno)
             if spec is not None:
                 for target in stmt.targets:
                     if isinstance(target, ast.Name):
-                        cls.attributes[target.id] = (spec, stmt)
+                        cls.attributes[target.id] = (spec, SourceSpan(stmt))
         elif isinstance(stmt, (ast.FunctionDef, ast.AsyncFunctionDef)):
             method = make_function(module, stmt, f"{qualname}.{stmt.name}", cls)
             cls.methods[stmt.name] = method
@@ -564,15 +571,29 @@ def record_import(imports: dict[str, ImportRef], stmt: ast.Import | ast.ImportFr
     if isinstance(stmt, ast.Import):
         for alias in stmt.names:
             if alias.asname:
-                imports[alias.asname] = ImportRef(alias.name, None)
+                imports[alias.asname] = _import_ref(alias.name, None, 0)
             else:
                 top = alias.name.split(".")[0]
-                imports[top] = ImportRef(top, None)
+                imports[top] = _import_ref(top, None, 0)
     else:
         for alias in stmt.names:
             if alias.name == "*":
                 continue
-            imports[alias.asname or alias.name] = ImportRef(stmt.module or "", alias.name, stmt.level)
+            imports[alias.asname or alias.name] = _import_ref(stmt.module or "", alias.name, stmt.level)
+
+
+_IMPORT_REFS: dict[tuple, ImportRef] = {}
+
+
+def _import_ref(module: str, attr: str | None, level: int) -> ImportRef:
+    """One object per distinct import: every module of a package imports the same names."""
+    key = (module, attr, level)
+    found = _IMPORT_REFS.get(key)
+    if found is None:
+        found = ImportRef(module, attr, level)
+        if len(_IMPORT_REFS) < 200_000:
+            _IMPORT_REFS[key] = found
+    return found
 
 
 _IDENTIFIER = re.compile(r"[A-Za-z_][A-Za-z0-9_]*")
@@ -608,7 +629,7 @@ def collect_symbols(module: ModuleSymbols) -> ModuleSymbols:
             if spec is None:
                 spec = comment_spec(module, stmt.lineno, stmt.end_lineno or stmt.lineno)
             if spec is not None:
-                module.globals_declared[name] = (spec, stmt)
+                module.globals_declared[name] = (spec, SourceSpan(stmt))
         elif (module.is_stub and isinstance(stmt, ast.Assign) and len(stmt.targets) == 1
               and isinstance(stmt.targets[0], ast.Name) and _number_literal(stmt.value) is not None):
             module.stub_numbers[stmt.targets[0].id] = _number_literal(stmt.value)
@@ -623,7 +644,7 @@ def collect_symbols(module: ModuleSymbols) -> ModuleSymbols:
             if spec is not None:
                 for target in stmt.targets:
                     if isinstance(target, ast.Name):
-                        module.globals_declared[target.id] = (spec, stmt)
+                        module.globals_declared[target.id] = (spec, SourceSpan(stmt))
     return module
 
 

@@ -38,7 +38,7 @@ _ARRAY_ATTRIBUTES = {"T", "real", "imag", "flat", "mT"}
 _NO_PROBLEMS: list = []  # never appended to: results are read, or replaced whole
 
 
-@dataclass
+@dataclass(slots=True)
 class FunctionResult:
     value: Any
     problems: list[Located] = field(default_factory=list)
@@ -102,7 +102,7 @@ class Engine:
         self._baselines: dict[FunctionInfo, FunctionResult] = {}
         self._in_baseline: set[FunctionInfo] = set()
         self._call_results: dict[tuple, FunctionResult] = {}
-        self._parameter_declarations: dict[FunctionInfo, list] = {}
+        self._parameter_declarations: dict[FunctionInfo, tuple] = {}
         self._in_call: set[tuple] = set()
         self._nested: dict[int, FunctionInfo] = {}
         self._constructors: dict[int, FunctionInfo] = {}
@@ -336,15 +336,25 @@ class Engine:
                 scope.returns.append(scope.expr(node.body))
             else:
                 scope.run(node.body)
+        value = merge_returns(scope.returns)
+        if isinstance(value, Quantity):
+            # A kept result must not hold the operands a product's label is composed from.
+            # Callers of a function with a declared return get the declaration, never this
+            # value: keep that instead; otherwise compose the label now.
+            declared = self.declared(function.module, function.return_spec)
+            if isinstance(declared, Quantity):
+                value = declared
+            else:
+                value.label
         # most functions have no problem: share one empty list rather than keep thousands
-        return FunctionResult(merge_returns(scope.returns), scope.problems or _NO_PROBLEMS)
+        return FunctionResult(value, scope.problems or _NO_PROBLEMS)
 
-    def parameter_declarations(self, function: FunctionInfo) -> list:
+    def parameter_declarations(self, function: FunctionInfo) -> tuple:
         """What each parameter declares (a Quantity, a GenericUnit or None), resolved once."""
         found = self._parameter_declarations.get(function)
         if found is None:
-            found = self._parameter_declarations[function] = [
-                self.declared(function.module, param.spec) for param in function.params]
+            found = self._parameter_declarations[function] = tuple(
+                self.declared(function.module, param.spec) for param in function.params)
         return found
 
     def _undeclared_parameter(self, function: FunctionInfo, index: int, param: ParamInfo) -> Any:

@@ -215,6 +215,8 @@ class Project:
                 symbols = ModuleSymbols(str(path), name, tree, text, trailing_comment_units(text),
                                         is_package=path.stem == "__init__", is_stub=True)
                 self._stub_modules[name] = collect_symbols(symbols)
+                if self.max_resident_trees is not None:
+                    symbols.release_tree()  # stub bodies are never analysed; declarations suffice
             except UnreadableFile:
                 self._stub_modules[name] = None
         return self._stub_modules[name]

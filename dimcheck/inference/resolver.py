@@ -24,21 +24,25 @@ class DeclarationResolver:
     def __init__(self, project: Project, table):
         self.project = project
         self.table = table
-        self._declared: dict[tuple, Any] = {}
+        self._declared: dict[str, dict] = {}  # module path -> spec -> value
         self.problems: dict[str, dict[tuple, Located]] = defaultdict(dict)  # DIM901 by module path
 
     def declared(self, module: ModuleSymbols, spec) -> Quantity | GenericUnit | None:
         if spec is None:
             return None
-        key = (module.path, spec)  # specs hash by text and node identity: stable while trees live
-        if key in self._declared:
-            return self._declared[key]
-        self._declared[key] = None  # a cycle of aliases resolves to nothing
+        # per module, then by spec (a spec hashes by its text and position, or an alias by
+        # its name): no key tuple to keep for each of many thousands of declarations
+        known = self._declared.get(module.path)
+        if known is None:
+            known = self._declared[module.path] = {}
+        elif spec in known:
+            return known[spec]
+        known[spec] = None  # a cycle of aliases resolves to nothing
         if isinstance(spec, UnitText):
             result = self._unit_text(module, spec)
         else:
             result = self._alias(module, spec.parts, 0)
-        self._declared[key] = result
+        known[spec] = result
         return result
 
     def _unit_text(self, module: ModuleSymbols, spec: UnitText) -> Quantity | GenericUnit | None:
