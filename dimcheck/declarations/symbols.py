@@ -543,14 +543,34 @@ def _top_level_statements(body):
 
 def definition_only_names(module: ModuleSymbols) -> frozenset[str]:
     """The module's functions and classes whose name no other statement binds: their value
-    is the definition itself, known without evaluating the module. Read once per module."""
+    is the definition itself, known without evaluating the module. Found when the module
+    is collected (``collect_symbols``), while its tree is at hand."""
     if module.definition_only is None:
-        counts: dict[str, int] = {}
-        for stmt in _top_level_statements(module.tree.body):
-            if isinstance(stmt, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef)):
-                counts[stmt.name] = counts.get(stmt.name, 0) + 1
-                continue
-            for node in ast.walk(stmt):  # loops, with-blocks, walruses: anything that binds
+        module.definition_only = _definition_only(module)
+    return module.definition_only
+
+
+def _definition_only(module: ModuleSymbols) -> frozenset[str]:
+    counts: dict[str, int] = {}
+    # without a walrus anywhere, only targets bind: values and expression statements need
+    # no walk (some modules hold large tables or documentation calls at the top level)
+    walrus = ":=" in module.source
+    for stmt in _top_level_statements(module.tree.body):
+        if isinstance(stmt, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef)):
+            counts[stmt.name] = counts.get(stmt.name, 0) + 1
+            continue
+        if walrus:
+            parts = [stmt]
+        elif isinstance(stmt, ast.Assign):
+            parts = stmt.targets
+        elif isinstance(stmt, (ast.AnnAssign, ast.AugAssign)):
+            parts = [stmt.target]
+        elif isinstance(stmt, (ast.Expr, ast.Return, ast.Pass, ast.Raise, ast.Assert)):
+            continue
+        else:  # imports, loops, with-blocks, del, match: walk them whole
+            parts = [stmt]
+        for part in parts:
+            for node in ast.walk(part):
                 if isinstance(node, ast.Name) and not isinstance(node.ctx, ast.Load):
                     bound = [node.id]
                 elif isinstance(node, (ast.Import, ast.ImportFrom)):
@@ -561,10 +581,8 @@ def definition_only_names(module: ModuleSymbols) -> frozenset[str]:
                     continue
                 for name in bound:
                     counts[name] = counts.get(name, 0) + 2
-        module.definition_only = frozenset(
-            name for name, count in counts.items()
-            if count == 1 and (name in module.functions or name in module.classes))
-    return module.definition_only
+    return frozenset(name for name, count in counts.items()
+                     if count == 1 and (name in module.functions or name in module.classes))
 
 
 def record_import(imports: dict[str, ImportRef], stmt: ast.Import | ast.ImportFrom) -> None:
@@ -645,6 +663,7 @@ def collect_symbols(module: ModuleSymbols) -> ModuleSymbols:
                 for target in stmt.targets:
                     if isinstance(target, ast.Name):
                         module.globals_declared[target.id] = (spec, SourceSpan(stmt))
+    module.definition_only = _definition_only(module)
     return module
 
 
