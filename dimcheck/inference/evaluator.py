@@ -121,6 +121,12 @@ def as_binding_value(value: Any) -> Any:
 
 
 class ScopeEvaluator:
+    # a fixed set of attributes: one evaluator is made per function analysis, and these
+    # are read on every node
+    __slots__ = ("engine", "module", "env", "declared", "global_names", "function", "closure",
+                 "baseline", "problems", "_seen", "returns", "_block_depth", "_expecting_error",
+                 "_stopped", "is_module_scope")
+
     def __init__(self, engine: "Engine", module: "ModuleSymbols", env: dict | None = None,
                  function: FunctionInfo | None = None, closure: "ScopeEvaluator | None" = None,
                  baseline: bool = True):

@@ -14,7 +14,6 @@ from fractions import Fraction
 from typing import Callable
 
 from .values import Quantity, quantity_product, power_scales
-from .labels import power_label
 
 _TOKEN = re.compile(r"\s*(?:(\$[A-Za-z_]\w*)|([A-Za-z_][\w]*)|(\d+(?:\.\d+)?)|(\*\*|[*/^()\-]))")
 
@@ -142,5 +141,5 @@ def _raise(base, exponent: Fraction):
 
 def raise_quantity(value: Quantity, exponent: Fraction) -> Quantity:
     return Quantity(value.dimension ** exponent, power_scales(value.scales, float(exponent)),
-                    power_label(value.display_unit(), exponent), derived=True,
+                    (value, exponent), derived=True,  # the label is composed when shown
                     tolerance=value.tolerance * abs(float(exponent)), pint=value.pint)

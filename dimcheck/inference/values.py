@@ -16,7 +16,7 @@ from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any
 
 from ..units.dimension import Dimension
-from .labels import compose_label, si_label
+from .labels import compose_label, power_label, si_label
 
 if TYPE_CHECKING:
     from ..declarations.symbols import ClassInfo, FunctionInfo
@@ -84,7 +84,7 @@ class Quantity:
                  tolerance: float = 0.0, pint: bool = False):
         self.dimension = dimension
         self.scales = scales
-        # a product's label is kept as (left, operator, right) until a message needs it
+        # a product's or a power's label is kept as its operands until a message needs it
         self._label = label
         self.derived = derived
         self.origin = origin
@@ -107,8 +107,13 @@ class Quantity:
     def label(self) -> str:
         label = self._label
         if label.__class__ is tuple:
-            left, operator, right = label
-            label = self._label = compose_label(left.display_unit(), operator, right.display_unit())
+            if len(label) == 2:  # (base, exponent) of a power
+                base, exponent = label
+                label = power_label(base.display_unit(), exponent)
+            else:  # (left, "*" or "/", right) of a product
+                left, operator, right = label
+                label = compose_label(left.display_unit(), operator, right.display_unit())
+            self._label = label
         return label
 
     def display_unit(self) -> str:
