@@ -11,10 +11,15 @@ import sys
 from dataclasses import dataclass, field
 from pathlib import Path
 
-if sys.version_info >= (3, 11):
-    import tomllib
-else:  # pragma: no cover - the package requires 3.11, kept for older tooling
-    import tomli as tomllib
+
+
+def _toml():
+    """The TOML reader, imported only when there is a file to read."""
+    if sys.version_info >= (3, 11):
+        import tomllib
+    else:  # pragma: no cover - the package requires 3.11, kept for older tooling
+        import tomli as tomllib
+    return tomllib
 
 from ..rules.registry import matching_codes
 
@@ -58,8 +63,12 @@ def find_config(start: Path) -> Path | None:
     for folder in [start, *start.parents]:
         candidate = folder / "pyproject.toml"
         if candidate.is_file():
+            tomllib = _toml()
             try:
-                data = tomllib.loads(candidate.read_text(encoding="utf-8"))
+                text = candidate.read_text(encoding="utf-8")
+                if "dimcheck" not in text:
+                    continue  # no [tool.dimcheck] table can be in it: no need to parse it
+                data = tomllib.loads(text)
             except (OSError, UnicodeDecodeError) as error:
                 raise ConfigError(f"{candidate}: cannot read: {error}") from None
             except tomllib.TOMLDecodeError as error:
@@ -78,6 +87,7 @@ def load_config(explicit: str | None = None, start: Path | None = None) -> Confi
         path = find_config(start or Path.cwd())
         if path is None:
             return Config()
+    tomllib = _toml()
     try:
         data = tomllib.loads(path.read_text(encoding="utf-8"))
     except UnicodeDecodeError:
