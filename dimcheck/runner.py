@@ -10,6 +10,7 @@ import gc
 import os
 import sys
 from dataclasses import dataclass, field
+from typing import TYPE_CHECKING
 
 from .cache import ResultCache, cache_key, default_folder
 from .cli.config import Config, ConfigError
@@ -18,6 +19,12 @@ from .declarations.suppressions import is_suppressed, skips_file
 from .rules.finding import Finding
 from .rules.registry import RULES, SEVERITY_RANK
 from .units import UnitError, load_unit_table
+
+if TYPE_CHECKING:  # imported where they are used, so a run answered from the cache skips them
+    from .declarations.symbols import DeclarationOptions
+    from .inference.engine import Engine
+    from .inference.evaluator import Located
+    from .inference.project import Project
 
 
 @dataclass

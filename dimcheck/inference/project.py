@@ -16,7 +16,7 @@ from collections import OrderedDict
 from pathlib import Path
 
 from ..declarations.comments import trailing_comment_units
-from ..declarations.annotations import AliasRef, UnitText, read_annotation
+from ..declarations.annotations import AliasRef
 from ..declarations.symbols import DeclarationOptions, ImportRef, ModuleSymbols, collect_symbols
 
 SHIPPED_STUBS = Path(__file__).resolve().parent.parent / "stubs"

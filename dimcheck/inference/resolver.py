@@ -5,7 +5,6 @@ from __future__ import annotations
 
 import ast
 from collections import defaultdict
-from typing import Any
 
 from ..declarations.annotations import UnitText
 from ..declarations.symbols import ModuleSymbols
