@@ -370,8 +370,11 @@ class Engine:
         assumed (``self`` of the method's own class, a ``duct: Duct`` instance): analysing
         the body again would find nothing new."""
         for index, param in enumerate(function.params):
-            if param.name in arguments and _value_key(arguments[param.name]) != _value_key(
-                    self._undeclared_parameter(function, index, param)):
+            if param.name not in arguments:
+                continue
+            given, assumed = arguments[param.name], self._undeclared_parameter(function, index, param)
+            # the same kind of value too: a class and an instance of it share a value key
+            if type(given) is not type(assumed) or _value_key(given) != _value_key(assumed):
                 return False
         return True
 

@@ -148,3 +148,22 @@ def test_deep_expressions_do_not_crash():
     chain = " + ".join(["h"] * 2000)
     source = f"from typing import Annotated\ndef f(h: Annotated[float, 'm'], t: Annotated[float, 's']):\n    return {chain} + t\n"
     assert codes(source) == [(3, "DIM101")]
+
+
+def test_a_call_reuses_the_baseline_only_for_exactly_what_it_assumed():
+    # The baseline of flow() assumes p holds a Pipe instance. Passing an instance reuses it
+    # (the m^3/s reaching a metre declaration is reported); passing the class itself must
+    # be analysed on its own: Pipe.area is then the property object, not an area.
+    assert check('''
+        class Pipe:
+            @property
+            def area(self) -> Annotated[float, "m^2"]:
+                return 0.01
+
+        def flow(p: Pipe, v: Annotated[float, "m/s"]):
+            return p.area * v
+
+        def use(v: Annotated[float, "m/s"]):
+            a: Annotated[float, "m"] = flow(Pipe(), v)
+            b: Annotated[float, "m"] = flow(Pipe, v)
+        ''') == [(14, "DIM103")]
