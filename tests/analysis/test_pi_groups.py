@@ -53,16 +53,13 @@ def _variables(units: dict[str, str], table) -> list[Variable]:
     return [Variable(name, text, parse_unit(text, table).dimension) for name, text in units.items()]
 
 
-def _rank(units: dict[str, str], table) -> int:
-    """Rank of the dimension matrix by exact Gaussian elimination (no sympy)."""
-    dims = [parse_unit(text, table).dimension.as_dict() for text in units.values()]
-    bases = sorted({base for d in dims for base in d})
-    rows = [[d.get(base, Fraction(0)) for d in dims] for base in bases]
-    rank, column = 0, 0
-    while rows and rank < len(rows) and column < len(rows[0]):
+def _matrix_rank(rows: list[list[Fraction]]) -> int:
+    """Rank of a matrix of Fractions by exact Gaussian elimination (no sympy)."""
+    rows = [list(row) for row in rows]
+    rank = 0
+    for column in range(len(rows[0]) if rows else 0):
         pivot = next((i for i in range(rank, len(rows)) if rows[i][column]), None)
         if pivot is None:
-            column += 1
             continue
         rows[rank], rows[pivot] = rows[pivot], rows[rank]
         for i in range(len(rows)):
@@ -70,25 +67,19 @@ def _rank(units: dict[str, str], table) -> int:
                 factor = rows[i][column] / rows[rank][column]
                 rows[i] = [a - factor * b for a, b in zip(rows[i], rows[rank])]
         rank += 1
-        column += 1
     return rank
+
+
+def _rank(units: dict[str, str], table) -> int:
+    """Rank of the dimension matrix (a row per base dimension, a column per variable)."""
+    dims = [parse_unit(text, table).dimension.as_dict() for text in units.values()]
+    bases = sorted({base for d in dims for base in d})
+    return _matrix_rank([[d.get(base, Fraction(0)) for d in dims] for base in bases])
 
 
 def _exponent_rank(groups: list[dict[str, Fraction]], names: list[str]) -> int:
-    """Rank of the groups' exponent vectors (rows), by exact elimination."""
-    rows = [[Fraction(g.get(name, 0)) for name in names] for g in groups]
-    rank = 0
-    for column in range(len(names)):
-        pivot = next((i for i in range(rank, len(rows)) if rows[i][column]), None)
-        if pivot is None:
-            continue
-        rows[rank], rows[pivot] = rows[pivot], rows[rank]
-        for i in range(len(rows)):
-            if i != rank and rows[i][column]:
-                factor = rows[i][column] / rows[rank][column]
-                rows[i] = [a - factor * b for a, b in zip(rows[i], rows[rank])]
-        rank += 1
-    return rank
+    """Rank of the groups' exponent vectors (rows)."""
+    return _matrix_rank([[Fraction(g.get(name, 0)) for name in names] for g in groups])
 
 
 def _assert_dimensionless(exponents: dict[str, Fraction], units: dict[str, str], table, ureg) -> None:
