@@ -7,12 +7,9 @@ import json
 import sys
 
 from .config import load_config
+from .errors import UsageError
 
 EXIT_OK, EXIT_BELOW, EXIT_TROUBLE = 0, 1, 2
-
-
-class CommandError(Exception):
-    """A one-line problem with a command's input."""
 
 
 def register(commands) -> None:
@@ -53,7 +50,7 @@ def run_explain(args) -> int:
     try:
         lines = explain(parse_target(args.location), load_config(args.config))
     except ExplainError as error:
-        raise CommandError(str(error)) from None
+        raise UsageError(str(error)) from None
     print("\n".join(lines))
     return EXIT_OK
 
@@ -62,7 +59,7 @@ def run_coverage(args) -> int:
     from ..analysis.coverage import measure
 
     if args.fail_under is not None and not 0 <= args.fail_under <= 100:
-        raise CommandError("--fail-under takes a percentage from 0 to 100")
+        raise UsageError("--fail-under takes a percentage from 0 to 100")
     config = load_config(args.config)
     report = measure(args.paths or config.paths or ["."], config)
     total = report.total()
@@ -96,7 +93,7 @@ def run_declarations(args) -> int:
         wanted = {part.strip() for part in args.sources.split(",") if part.strip()}
         unknown = wanted - _SOURCES
         if unknown:
-            raise CommandError(f"--sources: unknown source {sorted(unknown)[0]!r} "
+            raise UsageError(f"--sources: unknown source {sorted(unknown)[0]!r} "
                                f"(known: {', '.join(sorted(_SOURCES))})")
     config = load_config(args.config)
     found, errors = collect(args.paths or config.paths or ["."], config, args.assume_on)

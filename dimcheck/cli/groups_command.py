@@ -14,12 +14,10 @@ from __future__ import annotations
 import json
 import sys
 
+from .errors import UsageError
+
 EXIT_OK, EXIT_TROUBLE = 0, 2
 RETURN_NAME = "return"
-
-
-class GroupsUsageError(Exception):
-    """A one-line problem with the command's input."""
 
 
 def register(commands) -> None:
@@ -58,7 +56,7 @@ def run(args) -> int:
 
     try:
         return _run(args)
-    except (GroupsUsageError, GroupError, UnitError, ConfigError) as error:
+    except (UsageError, GroupError, UnitError, ConfigError) as error:
         print(f"dimcheck: error: {_one_line(error)}", file=sys.stderr)
         return EXIT_TROUBLE
 
@@ -68,11 +66,11 @@ def _run(args) -> int:
     from .config import load_config
 
     if args.function and args.pairs:
-        raise GroupsUsageError("give either NAME=UNIT pairs or --function, not both")
+        raise UsageError("give either NAME=UNIT pairs or --function, not both")
     if not args.function and not args.pairs:
-        raise GroupsUsageError("give NAME=UNIT pairs (such as L=m t=s) or --function FILE::FUNCTION")
+        raise UsageError("give NAME=UNIT pairs (such as L=m t=s) or --function FILE::FUNCTION")
     if args.skip_undeclared and not args.function:
-        raise GroupsUsageError("--skip-undeclared applies only with --function")
+        raise UsageError("--skip-undeclared applies only with --function")
     repeat = _repeat_names(args.repeat)
     # Check the pairs' shape before loading anything, so that typos fail fast.
     pairs = [_split_pair(text) for text in args.pairs]
@@ -100,7 +98,7 @@ def _repeat_names(text: str | None) -> list[str] | None:
     if not any(names):
         return []
     if not all(names):
-        raise GroupsUsageError(f"--repeat: empty name in '{text}' (write names separated by commas)")
+        raise UsageError(f"--repeat: empty name in '{text}' (write names separated by commas)")
     return names
 
 
@@ -108,11 +106,11 @@ def _split_pair(text: str) -> tuple[str, str]:
     name, equals, unit = text.partition("=")
     name = name.strip()
     if not equals:
-        raise GroupsUsageError(f"expected NAME=UNIT, got '{text}'")
+        raise UsageError(f"expected NAME=UNIT, got '{text}'")
     if not name.isidentifier():
-        raise GroupsUsageError(f"bad variable name '{name}' in '{text}' (use a name like rho or c_p)")
+        raise UsageError(f"bad variable name '{name}' in '{text}' (use a name like rho or c_p)")
     if not unit.strip():
-        raise GroupsUsageError(f"no unit for '{name}' in '{text}' (write {name}=1 for a dimensionless variable)")
+        raise UsageError(f"no unit for '{name}' in '{text}' (write {name}=1 for a dimensionless variable)")
     return name, unit.strip()
 
 
@@ -123,12 +121,12 @@ def _pair_variables(pairs, table):
     variables, seen = [], set()
     for name, unit_text in pairs:
         if name in seen:
-            raise GroupsUsageError(f"variable '{name}' is given more than once")
+            raise UsageError(f"variable '{name}' is given more than once")
         seen.add(name)
         try:
             unit = parse_unit(unit_text, table)
         except UnitError as error:
-            raise GroupsUsageError(f"DIM901 bad unit for '{name}': {error}") from None
+            raise UsageError(f"DIM901 bad unit for '{name}': {error}") from None
         variables.append(Variable(name, unit_text, unit.dimension))
     return variables
 
@@ -136,7 +134,7 @@ def _pair_variables(pairs, table):
 def _split_target(target: str) -> tuple[str, str]:
     path, separator, function = target.rpartition("::")
     if not separator or not path or not function:
-        raise GroupsUsageError(f"--function: expected FILE::FUNCTION, got '{target}'")
+        raise UsageError(f"--function: expected FILE::FUNCTION, got '{target}'")
     return path, function.strip()
 
 
@@ -155,7 +153,7 @@ def _function_variables(target: str, config, table, skip_undeclared: bool):
     if loaded.symbols is None:
         error = loaded.error
         where = f"{path}:{error.line}" if error.line > 1 else path
-        raise GroupsUsageError(f"{where}: {error.message}")
+        raise UsageError(f"{where}: {error.message}")
     module = loaded.symbols
     function = _find_function(module, qualname, path)
     engine = Engine(project, table)
@@ -174,7 +172,7 @@ def _function_variables(target: str, config, table, skip_undeclared: bool):
             if skip_undeclared:
                 skipped.append(name)
                 continue
-            raise GroupsUsageError(f"{what} has no declared unit (declare one, or pass --skip-undeclared)")
+            raise UsageError(f"{what} has no declared unit (declare one, or pass --skip-undeclared)")
         value = engine.declared(module, spec)
         if value is None:
             if isinstance(spec, UnitText):
@@ -182,16 +180,16 @@ def _function_variables(target: str, config, table, skip_undeclared: bool):
                     parse_unit(spec.text.strip(), table)
                 except UnitError as error:
                     line = getattr(spec.node, "lineno", function.line)
-                    raise GroupsUsageError(f"{path}:{line}: DIM901 bad unit for {what}: {error}") from None
-                raise GroupsUsageError(f"cannot read the unit '{spec.text}' of {what}")
+                    raise UsageError(f"{path}:{line}: DIM901 bad unit for {what}: {error}") from None
+                raise UsageError(f"cannot read the unit '{spec.text}' of {what}")
             shown = ".".join(spec.parts) if isinstance(spec, AliasRef) else str(spec)
             if skip_undeclared:
                 skipped.append(name)
                 continue
-            raise GroupsUsageError(f"{what} is annotated with '{shown}', which does not resolve to a unit "
+            raise UsageError(f"{what} is annotated with '{shown}', which does not resolve to a unit "
                                    f"(declare one, or pass --skip-undeclared)")
         if not isinstance(value, Quantity) or value.dimension is None:
-            raise GroupsUsageError(f"{what} has a unit that depends on other arguments "
+            raise UsageError(f"{what} has a unit that depends on other arguments "
                                    f"('{getattr(value, 'text', '')}'); "
                                    f"give the variables as NAME=UNIT instead")
         unit_text = spec.text if isinstance(spec, UnitText) else (value.label or ".".join(spec.parts))
@@ -199,7 +197,7 @@ def _function_variables(target: str, config, table, skip_undeclared: bool):
     if skipped:
         print(f"dimcheck: note: left out (no declared unit): {', '.join(skipped)}", file=sys.stderr)
     if not variables:
-        raise GroupsUsageError(f"'{qualname}' declares no units")
+        raise UsageError(f"'{qualname}' declares no units")
     return variables
 
 
@@ -208,15 +206,15 @@ def _find_function(module, qualname: str, path: str):
     if dot:
         cls = module.classes.get(owner_name)
         if cls is None:
-            raise GroupsUsageError(f"no class '{owner_name}' at the top level of {path}")
+            raise UsageError(f"no class '{owner_name}' at the top level of {path}")
         method = cls.methods.get(name)
         if method is None:
-            raise GroupsUsageError(f"no method '{name}' in class '{owner_name}' of {path}")
+            raise UsageError(f"no method '{name}' in class '{owner_name}' of {path}")
         return method
     function = module.functions.get(qualname)
     if function is None:
         available = sorted(module.functions)
         hint = f" (functions: {', '.join(available[:12])}{', ...' if len(available) > 12 else ''})" \
             if available else " (it defines no top-level function)"
-        raise GroupsUsageError(f"no function '{qualname}' at the top level of {path}{hint}")
+        raise UsageError(f"no function '{qualname}' at the top level of {path}{hint}")
     return function

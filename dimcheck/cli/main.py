@@ -14,14 +14,11 @@ import sys
 from .. import __version__
 from ..rules.registry import RULES
 from .config import ConfigError, load_config, parse_codes
+from .errors import UsageError
 from . import analysis_commands, annotate_command, groups_command
 from . import serve_command
 
 EXIT_CLEAN, EXIT_FINDINGS, EXIT_TROUBLE = 0, 1, 2
-
-
-class UsageError(Exception):
-    pass
 
 
 class _Parser(argparse.ArgumentParser):
@@ -135,7 +132,7 @@ def main(argv: list[str] | None = None) -> int:
             return handlers[args.command](args)
         parser.print_help()
         return EXIT_TROUBLE
-    except (UsageError, ConfigError, analysis_commands.CommandError) as error:
+    except (UsageError, ConfigError) as error:
         print(f"dimcheck: error: {error}", file=sys.stderr)
         return EXIT_TROUBLE
     except KeyboardInterrupt:
