@@ -14,7 +14,6 @@ from dataclasses import dataclass
 
 # Characters that never appear in a unit expression; a bracket holding one is prose.
 _NOT_UNIT_CHARS = re.compile(r"[,=;:+#'\"`{}<>!?@&|\\]|\.\.\.")
-_CANDIDATE_LINE = re.compile(r"#\s*\[")
 
 
 @dataclass(frozen=True, slots=True)
@@ -70,7 +69,7 @@ def trailing_comment_units(source: str) -> dict[int, CommentUnit]:
     Comments alone on their line are ignored: the contract reads only comments that
     trail code (an assignment or a parameter of a multi-line signature).
     """
-    if not _CANDIDATE_LINE.search(source) or not _has_candidate(source):
+    if not _has_candidate(source):
         return {}
     source = source.replace("\r\n", "\n").replace("\r", "\n")  # lone \r ends a line too
     found: dict[int, CommentUnit] = {}

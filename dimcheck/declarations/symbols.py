@@ -17,6 +17,32 @@ from .comments import CommentUnit
 UnitSpec = UnitText | AliasRef | None
 
 
+def _position(node) -> tuple[int, int, int, int]:
+    """(line, column) where a definition stands, then its first line (decorators included)
+    and its last: what is known of it while its module's tree is released."""
+    first = min([node.lineno, *(item.lineno for item in getattr(node, "decorator_list", ()))])
+    return node.lineno, node.col_offset, first, getattr(node, "end_lineno", None) or node.lineno
+
+
+def _where(info) -> tuple[int, int]:
+    """(line, column) of a definition: how ``restore_tree`` finds its new node."""
+    return info.position[:2]
+
+
+def _lines(info) -> tuple[int, int]:
+    """The first (decorators included) and the last line of a definition."""
+    return info.position[2:]
+
+
+def _restored_node(holder, module: "ModuleSymbols | None", name: str):
+    """Only reached for an empty slot: after ``release_tree`` a definition's or a
+    parameter's ``node`` is gone until its module parses its source again."""
+    if name != "node" or module is None:
+        raise AttributeError(name)
+    module.restore_tree()
+    return object.__getattribute__(holder, "node")
+
+
 @dataclass(slots=True)
 class ParamInfo:
     name: str
@@ -34,10 +60,7 @@ class ParamInfo:
         self.annotated_name = dotted_name(getattr(self.node, "annotation", None))
 
     def __getattr__(self, name: str):
-        if name != "node" or self.function is None:
-            raise AttributeError(name)
-        self.function.module.restore_tree()  # only reached after release_tree emptied the slot
-        return object.__getattribute__(self, "node")
+        return _restored_node(self, self.function.module if self.function else None, name)
 
 
 @dataclass(eq=False, slots=True)
@@ -52,8 +75,8 @@ class FunctionInfo:
     decorators: frozenset[str] = frozenset()
     pint_wrapper: str | None = None  # "wraps" or "check": pint's decorators declare the units
     # Kept apart from ``node``, which the module may release (see ModuleSymbols.release_tree):
-    # where the definition starts, and the dotted name its return annotation gives, if any.
-    # (line, column) of the definition, then its first (decorators) and last lines
+    # where the definition stands (see _position), and the dotted name its return
+    # annotation gives, if any.
     position: tuple[int, int, int, int] = field(init=False, default=(0, 0, 0, 0))
     returns_name: tuple[str, ...] | None = field(init=False, default=None)
 
@@ -64,7 +87,7 @@ class FunctionInfo:
             param.function = self
 
     def __getattr__(self, name: str):
-        return _restored_node(self, name)
+        return _restored_node(self, self.module, name)
 
     @property
     def is_static(self) -> bool:
@@ -82,8 +105,8 @@ class FunctionInfo:
     def line(self) -> int:
         return self.position[0]
 
-    where = property(lambda self: self.position[:2])  # (line, column): finds it after a release
-    lines = property(lambda self: self.position[2:])  # first (decorators) and last line
+    where = property(_where)
+    lines = property(_lines)
 
 
 @dataclass(eq=False, slots=True)
@@ -96,31 +119,16 @@ class ClassInfo:
     methods: dict[str, FunctionInfo] = field(default_factory=dict)
     fields: list[tuple[str, UnitSpec, ast.expr | None, SourceSpan]] = field(default_factory=list)
     is_record: bool = False  # dataclass or NamedTuple: fields are the constructor's parameters
-    # (line, column) of the definition, then its first (decorators) and last lines
-    position: tuple[int, int, int, int] = field(init=False, default=(0, 0, 0, 0))
+    position: tuple[int, int, int, int] = field(init=False, default=(0, 0, 0, 0))  # see _position
 
     def __post_init__(self) -> None:
         self.position = _position(self.node)
 
     def __getattr__(self, name: str):
-        return _restored_node(self, name)
+        return _restored_node(self, self.module, name)
 
-    where = property(lambda self: self.position[:2])
-    lines = property(lambda self: self.position[2:])
-
-
-def _position(node) -> tuple[int, int, int, int]:
-    first = min([node.lineno, *(item.lineno for item in getattr(node, "decorator_list", ()))])
-    return node.lineno, node.col_offset, first, getattr(node, "end_lineno", None) or node.lineno
-
-
-def _restored_node(info: "FunctionInfo | ClassInfo", name: str):
-    """Only reached for an empty slot: after ``release_tree`` the definition's ``node`` is
-    gone until its module parses its source again."""
-    if name != "node":
-        raise AttributeError(name)
-    info.module.restore_tree()
-    return object.__getattribute__(info, "node")
+    where = property(_where)
+    lines = property(_lines)
 
 
 @dataclass(frozen=True, slots=True)
