@@ -16,7 +16,7 @@ from .cache import ResultCache, cache_key, default_folder
 from .cli.config import Config, ConfigError
 from .cli.discovery import discover
 from .declarations.suppressions import is_suppressed, skips_file
-from .rules.finding import Finding
+from .rules.finding import Finding, display_path
 from .rules.registry import RULES, SEVERITY_RANK
 from .units import UnitError, load_unit_table
 
@@ -36,14 +36,6 @@ class Report:
     def fails(self, fail_on: str) -> bool:
         threshold = SEVERITY_RANK[fail_on]
         return any(SEVERITY_RANK[f.severity] >= threshold for f in self.findings)
-
-
-def display_path(path: str) -> str:
-    """Paths in reports are relative to the current directory (contract, section 4)."""
-    try:
-        return os.path.relpath(path)
-    except ValueError:  # another drive on Windows: no relative path exists
-        return path
 
 
 def finding_message(located: Located) -> str:

@@ -352,7 +352,8 @@ def plan(paths: list[str], config=None) -> Plan:
     from ..declarations.names import NameUnits
     from ..declarations.suppressions import skips_file
     from ..inference.engine import Engine
-    from ..runner import Checker, display_path
+    from ..rules.finding import display_path
+    from ..runner import Checker
 
     checker = Checker(config)
     config = checker.config

@@ -92,7 +92,8 @@ def fully_declared(engine, function) -> bool:
 def measure(paths: list[str], config=None) -> CoverageReport:
     from ..cli.discovery import discover
     from ..inference.engine import Engine
-    from ..runner import Checker, display_path
+    from ..rules.finding import display_path
+    from ..runner import Checker
 
     checker = Checker(config)
     files, _ = discover(paths, checker.config.exclude, checker.config.exclude_base)

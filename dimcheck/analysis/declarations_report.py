@@ -38,7 +38,8 @@ def collect(paths: list[str], config=None, assume_on: bool = False) -> tuple[lis
     from ..cli.discovery import discover
     from ..declarations.symbols import name_spec
     from ..inference.engine import Engine
-    from ..runner import Checker, display_path
+    from ..rules.finding import display_path
+    from ..runner import Checker
 
     if assume_on:
         from ..cli.config import Config

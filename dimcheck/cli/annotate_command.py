@@ -36,7 +36,7 @@ def register(commands) -> None:
 
 
 def _shown(path: str) -> str:
-    from ..runner import display_path
+    from ..rules.finding import display_path
 
     return display_path(path).replace(os.sep, "/")
 

@@ -10,7 +10,6 @@ chains) so that inference always terminates.
 from __future__ import annotations
 
 import ast
-import os
 import sys
 from collections import defaultdict
 from dataclasses import dataclass, field
@@ -21,6 +20,7 @@ from ..declarations.symbols import (
 )
 from ..rules import checks
 from ..rules.checks import Problem
+from ..rules.finding import display_path
 from .evaluator import MAX_EXPRESSION_DEPTH, STAR, Located, ScopeEvaluator, merge_values
 from .generic import GenericUnit
 from .pint_support import PintSupport, is_pint_stub
@@ -73,13 +73,6 @@ def merge_returns(values: list[Any]) -> Any:
     for value in known[1:]:
         result = merge_values(result, value)
     return Unknown() if isinstance(result, Bare) else result
-
-
-def display_path(path: str) -> str:
-    try:
-        return os.path.relpath(path)
-    except ValueError:
-        return path
 
 
 class Engine:

@@ -2,9 +2,18 @@
 
 from __future__ import annotations
 
+import os
 from dataclasses import dataclass
 
 from .registry import RULES
+
+
+def display_path(path: str) -> str:
+    """Paths in reports are relative to the current directory (contract, section 4)."""
+    try:
+        return os.path.relpath(path)
+    except ValueError:  # another drive on Windows: no relative path exists
+        return path
 
 
 @dataclass(frozen=True, slots=True)
