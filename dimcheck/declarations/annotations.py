@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import ast
 from dataclasses import dataclass
+from functools import lru_cache
 
 
 class SourceSpan:
@@ -65,7 +66,12 @@ def dotted_name(node: ast.AST | None) -> tuple[str, ...] | None:
 
 
 _DOTTED_NAMES: dict[tuple[str, ...], tuple[str, ...]] = {}
-_ALIASES: dict[tuple[str, ...], "AliasRef"] = {}
+
+
+@lru_cache(maxsize=None)
+def _alias_ref(parts: tuple[str, ...]) -> AliasRef:
+    """One object per name: thousands of parameters repeat the same few aliases."""
+    return AliasRef(parts)
 
 
 def _unit_in_metadata(item: ast.AST) -> UnitText | None:
@@ -111,12 +117,7 @@ def read_annotation(node: ast.AST | None, _depth: int = 0) -> UnitText | AliasRe
         return _first_of_union([node.left, node.right], _depth)
     if isinstance(node, (ast.Name, ast.Attribute)):
         parts = dotted_name(node)
-        if not parts:
-            return None
-        found = _ALIASES.get(parts)
-        if found is None:
-            found = _ALIASES[parts] = AliasRef(parts)  # one object per name: thousands repeat
-        return found
+        return _alias_ref(parts) if parts else None
     return None
 
 

@@ -10,6 +10,7 @@ from __future__ import annotations
 import ast
 import re
 from dataclasses import dataclass, field
+from functools import lru_cache
 
 from .annotations import AliasRef, SourceSpan, UnitText, dotted_name, read_annotation
 from .comments import CommentUnit
@@ -608,18 +609,10 @@ def record_import(imports: dict[str, ImportRef], stmt: ast.Import | ast.ImportFr
             imports[alias.asname or alias.name] = _import_ref(stmt.module or "", alias.name, stmt.level)
 
 
-_IMPORT_REFS: dict[tuple, ImportRef] = {}
-
-
+@lru_cache(maxsize=200_000)
 def _import_ref(module: str, attr: str | None, level: int) -> ImportRef:
     """One object per distinct import: every module of a package imports the same names."""
-    key = (module, attr, level)
-    found = _IMPORT_REFS.get(key)
-    if found is None:
-        found = ImportRef(module, attr, level)
-        if len(_IMPORT_REFS) < 200_000:
-            _IMPORT_REFS[key] = found
-    return found
+    return ImportRef(module, attr, level)
 
 
 _IDENTIFIER = re.compile(r"[A-Za-z_][A-Za-z0-9_]*")

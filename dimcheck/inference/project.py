@@ -13,6 +13,7 @@ import os
 import re
 import tokenize
 from collections import OrderedDict
+from functools import lru_cache
 from pathlib import Path
 
 from ..declarations.comments import trailing_comment_units
@@ -129,22 +130,14 @@ def module_name_for(path: Path) -> tuple[str, Path, bool]:
     return ".".join([*package, path.stem]), root, False
 
 
-_PACKAGES: dict[Path, tuple[tuple[str, ...], Path]] = {}
-
-
+@lru_cache(maxsize=100_000)
 def _package_of(folder: Path) -> tuple[tuple[str, ...], Path]:
     """The package names leading to a folder (empty outside a package) and the folder
     above the outermost package; remembered per folder, since every file asks."""
-    found = _PACKAGES.get(folder)
-    if found is None:
-        if (folder / "__init__.py").exists() and folder.parent != folder:
-            outer, root = _package_of(folder.parent)
-            found = ((*outer, folder.name), root)
-        else:
-            found = ((), folder)
-        if len(_PACKAGES) < 100_000:
-            _PACKAGES[folder] = found
-    return found
+    if (folder / "__init__.py").exists() and folder.parent != folder:
+        outer, root = _package_of(folder.parent)
+        return (*outer, folder.name), root
+    return (), folder
 
 
 class LoadedModule:
@@ -167,7 +160,7 @@ class LoadedModule:
 class Project:
     def __init__(self, stub_dirs: list[Path] | tuple = (), options: DeclarationOptions | None = None):
         self.options = options
-        _PACKAGES.clear()  # a new view of the disk: packages may have changed since the last
+        _package_of.cache_clear()  # a new view of the disk: packages may have changed since
         self._by_path: dict[str, LoadedModule] = {}
         self._by_name: dict[str, str] = {}
         self._roots: list[Path] = []

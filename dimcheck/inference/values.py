@@ -11,6 +11,7 @@
 from __future__ import annotations
 
 import math
+from functools import lru_cache
 from fractions import Fraction
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any
@@ -273,25 +274,9 @@ def quantity_product(left: Quantity, right: Quantity, divide: bool) -> Quantity:
                     pint=left.pint or right.pint)
 
 
+@lru_cache(maxsize=10_000)  # a program uses the same few exponents over and over
 def exact_exponent(value: float) -> Fraction | None:
     """A literal exponent as an exact fraction (0.5 -> 1/2, 1/3 -> 1/3), or None."""
-    try:
-        return _EXPONENTS[value]  # a program uses the same few exponents over and over
-    except (KeyError, TypeError):
-        pass
-    found = _exact_exponent(value)
-    if len(_EXPONENTS) < 10_000:
-        try:
-            _EXPONENTS[value] = found
-        except TypeError:
-            pass
-    return found
-
-
-_EXPONENTS: dict[float, Fraction | None] = {}
-
-
-def _exact_exponent(value: float) -> Fraction | None:
     try:
         fraction = Fraction(value).limit_denominator(1000)
     except (OverflowError, ValueError, TypeError):
