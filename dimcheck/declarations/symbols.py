@@ -132,9 +132,10 @@ class ClassInfo:
     lines = property(_lines)
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(frozen=True, slots=True, eq=False)
 class ImportRef:
-    """``local = module`` (attr None) or ``local = module.attr`` (``from module import attr``)."""
+    """``local = module`` (attr None) or ``local = module.attr`` (``from module import attr``).
+    One object per distinct import (``_import_ref``), so equal means identical."""
 
     module: str
     attr: str | None
