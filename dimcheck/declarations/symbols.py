@@ -168,8 +168,10 @@ class ModuleSymbols:
     pint_dynamic: bool | None = None  # defines pint units or contexts at run time (pint_support)
     # a docstring or a name pattern declares something here (the fast path must not skip it)
     declares_from_text: bool = False
-    # names that only a def or class statement binds (see definition_only_names)
+    # names that only a def or class statement binds (see definition_only_names), and
+    # names that only one import binds (the evaluator leaves them to be resolved on use)
     definition_only: frozenset[str] | None = None
+    import_only: frozenset[str] = frozenset()
     # called with the module after ``restore_tree`` (the project counts resident trees)
     on_restore: object = None
     # reads the source again after a release (None: the source is kept, as for notebooks)
@@ -556,18 +558,32 @@ def definition_only_names(module: ModuleSymbols) -> frozenset[str]:
     is the definition itself, known without evaluating the module. Found when the module
     is collected (``collect_symbols``), while its tree is at hand."""
     if module.definition_only is None:
-        module.definition_only = _definition_only(module)
+        module.definition_only, module.import_only = _single_bindings(module)
     return module.definition_only
 
 
-def _definition_only(module: ModuleSymbols) -> frozenset[str]:
-    counts: dict[str, int] = {}
+def _single_bindings(module: ModuleSymbols) -> tuple[frozenset[str], frozenset[str]]:
+    """The top-level names bound only once: by a def or class statement (their value is
+    the definition), and by an import (``import_only``)."""
+    first_binding: dict[str, str] = {}  # name -> "definition", "import" or "other"
+    bound_again: set[str] = set()
+
+    def bind(name: str, kind: str) -> None:
+        if name in first_binding:
+            bound_again.add(name)
+        else:
+            first_binding[name] = kind
+
     # without a walrus anywhere, only targets bind: values and expression statements need
     # no walk (some modules hold large tables or documentation calls at the top level)
     walrus = ":=" in module.source
     for stmt in _top_level_statements(module.tree.body):
         if isinstance(stmt, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef)):
-            counts[stmt.name] = counts.get(stmt.name, 0) + 1
+            bind(stmt.name, "definition")
+            continue
+        if isinstance(stmt, (ast.Import, ast.ImportFrom)):
+            for name in _imported_names(stmt):
+                bind(name, "import")
             continue
         if walrus:
             parts = [stmt]
@@ -577,22 +593,27 @@ def _definition_only(module: ModuleSymbols) -> frozenset[str]:
             parts = [stmt.target]
         elif isinstance(stmt, (ast.Expr, ast.Return, ast.Pass, ast.Raise, ast.Assert)):
             continue
-        else:  # imports, loops, with-blocks, del, match: walk them whole
+        else:  # loops, with-blocks, del, match: walk them whole
             parts = [stmt]
         for part in parts:
             for node in ast.walk(part):
                 if isinstance(node, ast.Name) and not isinstance(node.ctx, ast.Load):
-                    bound = [node.id]
+                    bind(node.id, "other")
                 elif isinstance(node, (ast.Import, ast.ImportFrom)):
-                    bound = [alias.asname or alias.name.split(".")[0] for alias in node.names]
+                    for name in _imported_names(node):
+                        bind(name, "other")
                 elif isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef)):
-                    bound = [node.name]
-                else:
-                    continue
-                for name in bound:
-                    counts[name] = counts.get(name, 0) + 2
-    return frozenset(name for name, count in counts.items()
-                     if count == 1 and (name in module.functions or name in module.classes))
+                    bind(node.name, "other")
+    once = {name: kind for name, kind in first_binding.items() if name not in bound_again}
+    definitions = frozenset(name for name, kind in once.items() if kind == "definition"
+                            and (name in module.functions or name in module.classes))
+    imports = frozenset(name for name, kind in once.items() if kind == "import" and name in module.imports)
+    return definitions, imports
+
+
+def _imported_names(stmt: ast.Import | ast.ImportFrom) -> list[str]:
+    """The names an import statement binds (``from m import *`` binds none it names)."""
+    return [alias.asname or alias.name.split(".")[0] for alias in stmt.names if alias.name != "*"]
 
 
 def record_import(imports: dict[str, ImportRef], stmt: ast.Import | ast.ImportFrom) -> None:
@@ -665,7 +686,7 @@ def collect_symbols(module: ModuleSymbols) -> ModuleSymbols:
                 for target in stmt.targets:
                     if isinstance(target, ast.Name):
                         module.globals_declared[target.id] = (spec, SourceSpan(stmt))
-    module.definition_only = _definition_only(module)
+    module.definition_only, module.import_only = _single_bindings(module)
     return module
 
 

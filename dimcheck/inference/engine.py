@@ -140,7 +140,10 @@ class Engine:
         if name in module.classes:
             return ClassValue(module.classes[name])
         if name in module.imports:
-            return self.import_value(module, module.imports[name])
+            value = self.import_value(module, module.imports[name])
+            if name in module.import_only:
+                env[name] = value  # what evaluating its import statement would have bound
+            return value
         if not module.is_stub or module.name != "builtins":
             builtins = self.project.stub_module("builtins")
             if builtins is not None and name in builtins.functions:

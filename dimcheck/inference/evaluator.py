@@ -437,8 +437,12 @@ class ScopeEvaluator:
     def _stmt_Import(self, node) -> None:
         imports: dict = {}
         record_import(imports, node)
+        # A module-level name that only this import binds is resolved on first use
+        # (Engine.module_name_value): most imported names are read in annotations only.
+        lazy = self.module.import_only if self.is_module_scope else ()
         for local, ref in imports.items():
-            self.env[local] = self.engine.import_value(self.module, ref)
+            if local not in lazy:
+                self.env[local] = self.engine.import_value(self.module, ref)
 
     _stmt_ImportFrom = _stmt_Import
 

@@ -12,6 +12,7 @@ import pytest
 import dimcheck.runner as runner
 from dimcheck import check_paths
 from dimcheck.runner import check_paths as run_paths
+import dimcheck.declarations.symbols as symbols
 from dimcheck.declarations.symbols import ModuleSymbols, collect_symbols, definition_only_names
 from dimcheck.inference.project import Project
 
@@ -131,6 +132,37 @@ def test_definition_only_names_leave_out_names_bound_again():
         '''))
     module = collect_symbols(ModuleSymbols("m.py", "m", tree, "", {}))
     assert definition_only_names(module) == {"plain", "Kept", "guarded"}
+
+
+def test_import_only_names_are_those_one_import_binds():
+    tree = ast.parse(textwrap.dedent('''\
+        import math
+        import numpy as np
+        import os.path
+        import os.environ
+        from lib import helper
+        try:
+            from fast import speed
+        except ImportError:
+            from slow import speed
+        from other import shadowed
+        shadowed = 2
+        from more import *
+        with open("f") as handle:
+            from inside import nested
+        '''))
+    module = collect_symbols(ModuleSymbols("m.py", "m", tree, "", {}))
+    assert module.import_only == {"math", "np", "helper"}
+
+
+@pytest.mark.parametrize("fixture", FIXTURES, ids=lambda path: path.name)
+def test_imports_resolved_on_use_find_what_eager_imports_find(fixture, monkeypatch):
+    # Names only one import binds are resolved when first read, not at the import.
+    lazy = _findings([str(fixture)])
+    single_bindings = symbols._single_bindings
+    monkeypatch.setattr(symbols, "_single_bindings",
+                        lambda module: (single_bindings(module)[0], frozenset()))
+    assert _findings([str(fixture)]) == lazy
 
 
 def test_a_function_rebound_at_module_level_is_seen_through_the_rebinding(tmp_path):
