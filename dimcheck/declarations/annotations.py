@@ -38,9 +38,10 @@ class UnitText:
     quantity_type: bool = False  # Annotated[pint.Quantity, "m"]: the value is a pint quantity
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(frozen=True, slots=True, eq=False)
 class AliasRef:
-    """A name that may refer to an ``Annotated`` alias: ``Density`` or ``units.Density``."""
+    """A name that may refer to an ``Annotated`` alias: ``Density`` or ``units.Density``.
+    One object per name (``_alias_ref``), so equal means identical."""
 
     parts: tuple[str, ...]
 

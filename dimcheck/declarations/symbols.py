@@ -80,6 +80,7 @@ class FunctionInfo:
     # annotation gives, if any.
     position: tuple[int, int, int, int] = field(init=False, default=(0, 0, 0, 0))
     returns_name: tuple[str, ...] | None = field(init=False, default=None)
+    call_signature: tuple | None = field(init=False, default=None)  # see engine.bind_arguments
 
     def __post_init__(self) -> None:
         self.position = _position(self.node)

@@ -598,24 +598,34 @@ def _any_pint(bound: dict) -> bool:
 def bind_arguments(function: FunctionInfo, bound_self: Any, args: list, keywords: dict) -> dict:
     """Map call arguments to parameter names: name -> [(value, node), ...]."""
     result: dict[str, list] = {}
-    positional = [p for p in function.params if p.kind == "positional"]
-    vararg = next((p for p in function.params if p.kind == "vararg"), None)
+    signature = function.call_signature
+    if signature is None:
+        signature = function.call_signature = _call_signature(function)
+    positional, vararg, by_keyword = signature
     if bound_self is not None and not function.is_static and positional:
-        result[positional[0].name] = [(bound_self, None)]
+        result[positional[0]] = [(bound_self, None)]
         positional = positional[1:]
     for index, (value, node) in enumerate(args):
         if value is STAR:
             break
         if index < len(positional):
-            result[positional[index].name] = [(value, node)]
+            result[positional[index]] = [(value, node)]
         elif vararg is not None:
-            result.setdefault(vararg.name, []).append((value, node))
-    by_name = {p.name: p for p in function.params if p.kind in ("positional", "keyword")}
+            result.setdefault(vararg, []).append((value, node))
     for name, (value, node) in keywords.items():
-        param = by_name.get(name) if isinstance(name, str) else None
-        if param is not None and not param.positional_only:
-            result[param.name] = [(value, node)]
+        if name in by_keyword:  # (the star of **kwargs is no str: never in it)
+            result[name] = [(value, node)]
     return result
+
+
+def _call_signature(function: FunctionInfo) -> tuple:
+    """What binding a call needs of a function's parameters, worked out once: the names
+    taking positional arguments, the ``*args`` name, the names a keyword may give."""
+    positional = tuple(p.name for p in function.params if p.kind == "positional")
+    vararg = next((p.name for p in function.params if p.kind == "vararg"), None)
+    by_keyword = frozenset(p.name for p in function.params
+                           if p.kind in ("positional", "keyword") and not p.positional_only)
+    return positional, vararg, by_keyword
 
 
 def _power_call(evaluator: ScopeEvaluator, node, args, keywords) -> Any:

@@ -197,7 +197,7 @@ class ScopeEvaluator:
             self._block_depth -= 1
 
     def statement(self, node: ast.stmt) -> None:
-        handler = _handler(_STATEMENT_HANDLERS, "_stmt_", type(node))
+        handler = _STATEMENT_HANDLERS.get(node.__class__) or _handler(_STATEMENT_HANDLERS, "_stmt_", node.__class__)
         if handler is not None:
             handler(self, node)
         else:
@@ -483,7 +483,8 @@ class ScopeEvaluator:
             return UNKNOWN
         engine.depth += 1
         try:
-            handler = _handler(_EXPRESSION_HANDLERS, "_expr_", type(node))
+            handler = (_EXPRESSION_HANDLERS.get(node.__class__)
+                       or _handler(_EXPRESSION_HANDLERS, "_expr_", node.__class__))
             if handler is None:
                 self._visit_children(node)
                 value = UNKNOWN

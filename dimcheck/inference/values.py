@@ -197,6 +197,8 @@ def scales_overlap(a: tuple[float, ...] | None, b: tuple[float, ...] | None,
     """True when the two candidate sets share a scale, or either is open."""
     if a is None or b is None:
         return True
+    if a == b:  # the usual case, without a closeness test per pair
+        return bool(a)
     return any(_close(x, y, tolerance) for x in a for y in b)
 
 
@@ -230,13 +232,22 @@ def _dedupe(values) -> tuple[float, ...] | None:
 def multiply_scales(a, b):
     if a is None or b is None:
         return None
+    if len(a) == 1 and len(b) == 1:  # the usual case: one scale each
+        return _single_scale(a[0] * b[0])
     return _dedupe(x * y for x in a for y in b)
 
 
 def divide_scales(a, b):
     if a is None or b is None:
         return None
+    if len(a) == 1 and len(b) == 1:
+        return _single_scale(a[0] / b[0])
     return _dedupe(x / y for x in a for y in b)
+
+
+def _single_scale(value: float) -> tuple[float, ...] | None:
+    """``_dedupe`` of one value."""
+    return (value,) if value != 0 and math.isfinite(value) else None
 
 
 def power_scales(a, exponent: float):

@@ -30,21 +30,38 @@ def _sort_key(name: str) -> tuple[int, str]:
     return (_ORDER.get(name, len(_ORDER)), name)
 
 
+_CANONICAL: dict[tuple, "Dimension"] = {}
+_MAX_CANONICAL = 100_000
+
+
 class Dimension:
-    """An immutable product of base dimensions raised to rational powers."""
+    """An immutable product of base dimensions raised to rational powers.
+
+    Equal dimensions are one object (up to ``_MAX_CANONICAL`` of them): comparing two is
+    then an identity check, not a comparison of their Fractions.
+    """
 
     __slots__ = ("exponents", "_hash")
+    exponents: tuple[tuple[str, Fraction], ...]
 
-    def __init__(self, exponents: Iterable[tuple[str, Fraction]] = ()):
+    def __new__(cls, exponents: Iterable[tuple[str, Fraction]] = ()) -> "Dimension":
         cleaned = {}
         for name, power in exponents:
             power = Fraction(power)
             if power:
                 cleaned[name] = cleaned.get(name, Fraction(0)) + power
-        self.exponents: tuple[tuple[str, Fraction], ...] = tuple(
-            sorted(((n, p) for n, p in cleaned.items() if p), key=lambda item: _sort_key(item[0]))
-        )
-        self._hash = hash(self.exponents)
+        key = tuple(sorted(((n, p) for n, p in cleaned.items() if p), key=lambda item: _sort_key(item[0])))
+        found = _CANONICAL.get(key)
+        if found is None:
+            found = object.__new__(cls)
+            found.exponents = key
+            found._hash = hash(key)
+            if len(_CANONICAL) < _MAX_CANONICAL:
+                _CANONICAL[key] = found
+        return found
+
+    def __reduce__(self):
+        return (Dimension, (self.exponents,))  # unpickled (--jobs) into the canonical object
 
     @classmethod
     def from_mapping(cls, mapping: Mapping[str, object]) -> "Dimension":
