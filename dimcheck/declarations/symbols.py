@@ -9,10 +9,12 @@ from __future__ import annotations
 
 import ast
 import re
+from collections import deque
+from collections.abc import Iterator
 from dataclasses import dataclass, field
 from functools import lru_cache
 
-from .annotations import AliasRef, SourceSpan, UnitText, dotted_name, read_annotation
+from .annotations import AliasRef, SourceSpan, UnitText, read_annotation
 from .comments import CommentUnit
 
 UnitSpec = UnitText | AliasRef | None
@@ -54,11 +56,8 @@ class ParamInfo:
     positional_only: bool = False
     # kept when the module releases its tree: the dotted name the annotation gives, if
     # any (it may be a class, whose instance the parameter holds), and the function
-    annotated_name: tuple[str, ...] | None = field(init=False, default=None)
+    annotated_name: tuple[str, ...] | None = None
     function: "FunctionInfo | None" = field(init=False, default=None)
-
-    def __post_init__(self) -> None:
-        self.annotated_name = dotted_name(getattr(self.node, "annotation", None))
 
     def __getattr__(self, name: str):
         return _restored_node(self, self.function.module if self.function else None, name)
@@ -79,12 +78,11 @@ class FunctionInfo:
     # where the definition stands (see _position), and the dotted name its return
     # annotation gives, if any.
     position: tuple[int, int, int, int] = field(init=False, default=(0, 0, 0, 0))
-    returns_name: tuple[str, ...] | None = field(init=False, default=None)
+    returns_name: tuple[str, ...] | None = None
     call_signature: tuple | None = field(init=False, default=None)  # see engine.bind_arguments
 
     def __post_init__(self) -> None:
         self.position = _position(self.node)
-        self.returns_name = dotted_name(getattr(self.node, "returns", None))
         for param in self.params:
             param.function = self
 
@@ -333,31 +331,43 @@ def _all_arguments(args: ast.arguments) -> list[ast.arg]:
 
 def read_parameters(module: ModuleSymbols, node) -> list[ParamInfo]:
     args = node.args
-    params: list[ParamInfo] = []
-    multi_line = getattr(node, "end_lineno", node.lineno) != node.lineno
-    all_args = _all_arguments(args)
-    args_per_line: dict[int, int] = {}
-    for arg in all_args:
-        args_per_line[arg.lineno] = args_per_line.get(arg.lineno, 0) + 1
+    is_lambda = node.__class__ is ast.Lambda
+    # In a signature over several lines, a unit comment declares the parameter that
+    # stands alone on its line: count the parameters per line (only if there are comments).
+    alone_on_line = None
+    if module.comment_units and getattr(node, "end_lineno", node.lineno) != node.lineno:
+        per_line: dict[int, int] = {}
+        for arg in _all_arguments(args):
+            per_line[arg.lineno] = per_line.get(arg.lineno, 0) + 1
+        alone_on_line = {line for line, count in per_line.items() if count == 1}
 
-    def spec_of(arg: ast.arg) -> UnitSpec:
-        spec = read_annotation(arg.annotation) if not isinstance(node, ast.Lambda) else None
-        if spec is None and multi_line and args_per_line.get(arg.lineno) == 1:
+    def parameter(arg: ast.arg, kind: str, default, positional_only: bool = False) -> ParamInfo:
+        annotation = None if is_lambda else arg.annotation
+        spec = read_annotation(annotation) if annotation is not None else None
+        if spec is None and alone_on_line is not None and arg.lineno in alone_on_line:
             spec = comment_spec(module, arg.lineno, arg.lineno)
-        return spec
+        return ParamInfo(arg.arg, kind, spec, default, arg, positional_only, _annotated_name(spec, annotation))
 
+    params: list[ParamInfo] = []
     positional = args.posonlyargs + args.args
     defaults = [None] * (len(positional) - len(args.defaults)) + list(args.defaults)
     for index, (arg, default) in enumerate(zip(positional, defaults)):
-        params.append(ParamInfo(arg.arg, "positional", spec_of(arg), default, arg,
-                                positional_only=index < len(args.posonlyargs)))
+        params.append(parameter(arg, "positional", default, index < len(args.posonlyargs)))
     if args.vararg:
-        params.append(ParamInfo(args.vararg.arg, "vararg", spec_of(args.vararg), None, args.vararg))
+        params.append(parameter(args.vararg, "vararg", None))
     for arg, default in zip(args.kwonlyargs, args.kw_defaults):
-        params.append(ParamInfo(arg.arg, "keyword", spec_of(arg), default, arg))
+        params.append(parameter(arg, "keyword", default))
     if args.kwarg:
-        params.append(ParamInfo(args.kwarg.arg, "varkw", spec_of(args.kwarg), None, args.kwarg))
+        params.append(parameter(args.kwarg, "varkw", None))
     return params
+
+
+def _annotated_name(spec: UnitSpec, annotation: ast.expr | None) -> tuple[str, ...] | None:
+    """The dotted name an annotation is (``p: Pipe`` may name a class), which
+    ``read_annotation`` has already read into ``spec``; None for any other annotation."""
+    if spec.__class__ is AliasRef and annotation.__class__ in (ast.Name, ast.Attribute):
+        return spec.parts
+    return None
 
 
 def make_function(module: ModuleSymbols, node, qualname: str, owner: ClassInfo | None) -> FunctionInfo:
@@ -365,7 +375,7 @@ def make_function(module: ModuleSymbols, node, qualname: str, owner: ClassInfo |
     info = FunctionInfo(
         name=getattr(node, "name", "<lambda>"), qualname=qualname, node=node, module=module,
         params=read_parameters(module, node), return_spec=returns, owner=owner,
-        decorators=decorator_names(node),
+        decorators=decorator_names(node), returns_name=_annotated_name(returns, getattr(node, "returns", None)),
     )
     if not isinstance(node, ast.Lambda) and node.decorator_list:
         _read_pint_decorators(info, node)
@@ -491,7 +501,7 @@ def _self_attribute_declarations(cls: ClassInfo, method: ast.FunctionDef, module
     if not method.args.args:
         return
     self_name = method.args.args[0].arg
-    for stmt in ast.walk(method):
+    for stmt in _statements_within(method):
         if isinstance(stmt, ast.AnnAssign):
             targets, spec = [stmt.target], read_annotation(stmt.annotation)
         elif isinstance(stmt, ast.Assign):
@@ -505,6 +515,23 @@ def _self_attribute_declarations(cls: ClassInfo, method: ast.FunctionDef, module
             if (isinstance(target, ast.Attribute) and isinstance(target.value, ast.Name)
                     and target.value.id == self_name and target.attr not in cls.attributes):
                 cls.attributes[target.attr] = (spec, SourceSpan(stmt))
+
+
+def _statements_within(node) -> Iterator[ast.stmt]:
+    """The statements inside a definition at any depth, in ``ast.walk`` order, without
+    visiting the expressions between them (declarations are statements)."""
+    queue = deque(node.body)
+    while queue:
+        item = queue.popleft()
+        if isinstance(item, ast.stmt):
+            yield item
+        for name in item._fields:
+            value = getattr(item, name, None)
+            if value.__class__ is list and value and isinstance(value[0], _BLOCK_ITEMS):
+                queue.extend(value)
+
+
+_BLOCK_ITEMS = (ast.stmt, ast.excepthandler, ast.match_case)
 
 
 def read_class(module: ModuleSymbols, node: ast.ClassDef, qualname: str) -> ClassInfo:
