@@ -66,6 +66,8 @@ def _informative(value: Any) -> bool:
 
 
 def merge_returns(values: list[Any]) -> Any:
+    if len(values) == 1 and values[0].__class__ is Quantity:
+        return values[0]  # the usual case
     known = [v for v in values if not (isinstance(v, Bare) and v.is_zero) and v is not RECURSION]
     if not known:
         return UNKNOWN
@@ -445,24 +447,39 @@ class Engine:
         if function.pint_wrapper is not None:
             self._pint_decorated_arguments(function, bound, evaluator)
         bindings: dict[str, Any] = {}
-        generic_members: dict[str, list] = defaultdict(list)
         arguments: dict[str, Any] = {}
         declarations = self.parameter_declarations(function)
+        generic = False
         for param, declared in zip(function.params, declarations):
-            supplied = bound.get(param.name, [])
-            if isinstance(declared, Quantity):
+            supplied = bound.get(param.name)
+            if supplied is None:
+                continue
+            if declared.__class__ is Quantity:
                 for value, arg_node in supplied:
                     if arg_node is not None:
                         evaluator.report(arg_node, checks.check_argument(
                             param.name, function.name, declared, value, transcendental))
             elif isinstance(declared, GenericUnit):
-                variable = declared.single_variable
-                for value, arg_node in supplied:
-                    if variable is not None:
-                        generic_members[variable].append((value, arg_node))
-            elif supplied and param.kind not in ("vararg", "varkw"):
+                generic = True
+            elif param.kind not in ("vararg", "varkw"):
                 value = supplied[0][0]
                 arguments[param.name] = Unknown(value.value) if isinstance(value, Bare) else value
+        if generic:
+            self._check_generic_arguments(function, declarations, bound, bindings, node, evaluator, transcendental)
+        result = self._call_result(callee, function, module, bound, bindings, arguments, node, evaluator)
+        if (isinstance(result, Quantity) and not result.pint and module.is_stub
+                and module.name.split(".")[0] == "numpy" and _any_pint(bound)):
+            result = result.replace(pint=True)  # numpy on pint quantities returns quantities
+        return result
+
+    def _check_generic_arguments(self, function: FunctionInfo, declarations: tuple, bound: dict,
+                                 bindings: dict, node, evaluator: ScopeEvaluator, transcendental: bool) -> None:
+        """Parameters declared with a template (``"$X"``, ``"$X^2"``): bind each variable
+        to the first argument of known unit, then check the others against it."""
+        generic_members: dict[str, list] = defaultdict(list)
+        for param, declared in zip(function.params, declarations):
+            if isinstance(declared, GenericUnit) and declared.single_variable is not None:
+                generic_members[declared.single_variable].extend(bound.get(param.name, ()))
         for variable, members in generic_members.items():
             first = next((value for value, _ in members if isinstance(value, Quantity)), None)
             if first is None:
@@ -481,12 +498,6 @@ class Engine:
                         if arg_node is not None:
                             evaluator.report(arg_node, checks.check_argument(
                                 param.name, function.name, expected, value, transcendental))
-
-        result = self._call_result(callee, function, module, bound, bindings, arguments, node, evaluator)
-        if (isinstance(result, Quantity) and not result.pint and module.is_stub
-                and module.name.split(".")[0] == "numpy" and _any_pint(bound)):
-            result = result.replace(pint=True)  # numpy on pint quantities returns quantities
-        return result
 
     def _call_result(self, callee, function, module, bound, bindings, arguments, node, evaluator) -> Any:
         returned = self.declared(module, function.return_spec)

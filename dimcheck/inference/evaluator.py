@@ -479,6 +479,11 @@ class ScopeEvaluator:
         if node is None:
             return UNKNOWN
         engine = self.engine
+        if node.__class__ is ast.Name and engine.observer is None:
+            # half of all nodes: a local name, read without the nesting count or a handler
+            found = self.env.get(node.id, _NOT_BOUND)
+            if found is not _NOT_BOUND:
+                return found
         if engine.depth > engine.depth_budget:
             return UNKNOWN
         engine.depth += 1
@@ -778,6 +783,7 @@ class _Star:
 
 
 _STAR = _Star()
+_NOT_BOUND = object()  # a name the environment does not hold
 STAR = _STAR
 _ONE = Quantity(DIMENSIONLESS, (1.0,), "1")
 

@@ -23,12 +23,12 @@ class GenericUnit:
     text: str
     variables: tuple[str, ...]
     evaluate: Callable[[dict, Callable[[str], Quantity | None]], Quantity | None]
+    single_variable: str | None  # ``X`` when the whole template is ``$X``: an argument there binds X
 
-    @property
-    def single_variable(self) -> str | None:
-        """``X`` when the whole template is ``$X``: an argument there binds X."""
-        stripped = self.text.strip()
-        return stripped[1:] if stripped.startswith("$") and stripped[1:].isidentifier() else None
+
+def _single_variable(text: str) -> str | None:
+    stripped = text.strip()
+    return stripped[1:] if stripped.startswith("$") and stripped[1:].isidentifier() else None
 
 
 class GenericSyntaxError(ValueError):
@@ -51,7 +51,7 @@ def parse_generic(text: str) -> GenericUnit:
     if parser.index != len(tokens):
         raise GenericSyntaxError(f"unexpected text in unit template {text!r}")
     variables = tuple(sorted({t[0][1:] for t in tokens if t[0]}))
-    return GenericUnit(text, variables, node)
+    return GenericUnit(text, variables, node, _single_variable(text))
 
 
 class _Parser:
