@@ -34,6 +34,4 @@ def check_source(source: str, filename: str = "snippet.py", config=None, select=
 
 
 def _relabel(finding, filename):
-    from dataclasses import replace
-
-    return replace(finding, path=filename)
+    return finding._replace(path=filename)

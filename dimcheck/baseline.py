@@ -25,8 +25,9 @@ import json
 import os
 import re
 import tokenize
+import copy
 from collections import Counter
-from dataclasses import dataclass, replace
+from dataclasses import dataclass
 
 FORMAT_VERSION = 1
 _LINE_BREAK = re.compile(r"\r\n|\r|\n")  # the line breaks Python counts lines by
@@ -187,4 +188,6 @@ def filter_findings(findings, known: frozenset[Entry], baseline_file: str) -> li
 
 def filter_report(report, known: frozenset[Entry], baseline_file: str):
     """A copy of ``report`` without the findings recorded in the baseline."""
-    return replace(report, findings=filter_findings(report.findings, known, baseline_file))
+    filtered = copy.copy(report)
+    filtered.findings = filter_findings(report.findings, known, baseline_file)
+    return filtered

@@ -16,7 +16,6 @@ except ImportError:  # pragma: no cover - a Python built without it
     from hashlib import blake2b
 import json
 import os
-import tempfile
 import time
 from pathlib import Path
 
@@ -141,6 +140,8 @@ class ResultCache:
             return
         data = {"format": FORMAT, "key": self.key, "saved_ns": time.time_ns(), "modules": self.modules,
                 "findings": self.findings}
+        import tempfile  # only when there is something to write
+
         temporary = None
         try:
             self.path.parent.mkdir(parents=True, exist_ok=True)

@@ -9,7 +9,7 @@ from __future__ import annotations
 import gc
 import os
 import sys
-from dataclasses import dataclass, field
+from contextlib import contextmanager
 from typing import TYPE_CHECKING
 
 from .cache import ResultCache, cache_key, default_folder
@@ -18,7 +18,7 @@ from .cli.discovery import discover
 from .declarations.suppressions import is_suppressed, skips_file
 from .rules.finding import Finding, display_path
 from .rules.registry import RULES, SEVERITY_RANK
-from .units import UnitError, load_unit_table
+from .units import UnitError, unit_table_key
 
 if TYPE_CHECKING:  # imported where they are used, so a run answered from the cache skips them
     from .declarations.symbols import DeclarationOptions
@@ -27,11 +27,15 @@ if TYPE_CHECKING:  # imported where they are used, so a run answered from the ca
     from .inference.project import Project
 
 
-@dataclass
 class Report:
-    files_checked: int = 0
-    findings: list[Finding] = field(default_factory=list)
-    errors: list[str] = field(default_factory=list)  # paths that could not be checked at all
+    def __init__(self, files_checked: int = 0, findings: list[Finding] | None = None,
+                 errors: list[str] | None = None):
+        self.files_checked = files_checked
+        self.findings: list[Finding] = findings if findings is not None else []
+        self.errors: list[str] = errors if errors is not None else []  # paths not checked at all
+
+    def __repr__(self) -> str:
+        return f"Report({self.files_checked} files, {len(self.findings)} findings, {len(self.errors)} errors)"
 
     def fails(self, fail_on: str) -> bool:
         threshold = SEVERITY_RANK[fail_on]
@@ -67,15 +71,35 @@ class Checker:
         chosen = select if select is not None else self.config.select
         self.codes = set(chosen or RULES)
         self.codes -= set(ignore if ignore is not None else self.config.ignore)
-        try:
-            self.table = load_unit_table(self.config.units, self.config.base_dimensions)
-        except UnitError as error:  # a definition file pint cannot read
-            where = f"{self.config.source}: [tool.dimcheck] units" if self.config.source else "units"
-            raise ConfigError(f"{where}: {error}") from None
+        self._table = None
+        with self._units_problem_as_config_error():
+            # the key is enough for a run answered from the cache; the table comes on first use
+            self.table_key = unit_table_key(self.config.units, self.config.base_dimensions)
         self.use_cache = use_cache
-        validate_name_units(self.config, self.table)
+        if self.config.name_units:
+            validate_name_units(self.config, self.table)
         self._options = None
         self.scope: list[str] | None = None  # the paths given: modules outside are not read
+
+    @property
+    def table(self):
+        """The unit table, loaded on first use (from its cache, or built from pint)."""
+        return self._table if self._table is not None else self._load_table()
+
+    def _load_table(self):
+        from .units import load_unit_table
+
+        with self._units_problem_as_config_error():
+            self._table = load_unit_table(self.config.units, self.config.base_dimensions)
+        return self._table
+
+    @contextmanager
+    def _units_problem_as_config_error(self):
+        try:
+            yield
+        except UnitError as error:  # a definition file missing, or one pint cannot read
+            where = f"{self.config.source}: [tool.dimcheck] units" if self.config.source else "units"
+            raise ConfigError(f"{where}: {error}") from None
 
     @property
     def options(self):
@@ -93,7 +117,7 @@ class Checker:
         if not self.use_cache:
             return None
         from . import __version__
-        key = cache_key(__version__, self.config, self.table.key, self.config.stubs)
+        key = cache_key(__version__, self.config, self.table_key, self.config.stubs)
         return ResultCache(default_folder(self.config), key)
 
     def new_project(self) -> Project:
@@ -119,6 +143,8 @@ class Checker:
                 raw_by_path[path] = cached
         dependencies: dict[str, set[str]] = {}
         self.scope = scope
+        if pending and self._table is None:
+            self._load_table()  # a bad unit definition file stops the run here, before any worker
         for path, raw in self._compute(pending, jobs, dependencies):
             raw_by_path[path] = raw
         if cache is not None and pending:

@@ -43,7 +43,7 @@ def collect(paths: list[str], config=None, assume_on: bool = False) -> tuple[lis
 
     if assume_on:
         from ..cli.config import Config
-        config = dataclasses.replace(config or Config(), docstring_units=True, suffix_units=True)
+        config = (config or Config()).replace(docstring_units=True, suffix_units=True)
     checker = Checker(config)
     files, errors = discover(paths, checker.config.exclude, checker.config.exclude_base)
     project = checker.new_project()

@@ -12,7 +12,7 @@ from .errors import UsageError
 EXIT_OK, EXIT_BELOW, EXIT_TROUBLE = 0, 1, 2
 
 
-def register(commands) -> None:
+def add_explain(commands) -> None:
     explain = commands.add_parser(
         "explain", help="show how the dimension of each part of a line was found",
         description="Print, as a tree, the unit and dimension of every expression on a line and "
@@ -20,6 +20,8 @@ def register(commands) -> None:
     explain.add_argument("location", metavar="FILE:LINE[:COL]")
     explain.add_argument("--config", metavar="FILE")
 
+
+def add_coverage(commands) -> None:
     coverage = commands.add_parser(
         "coverage", help="report how much of the code has known units",
         description="Per file and in total: the share of numeric expressions whose dimension is "
@@ -30,6 +32,8 @@ def register(commands) -> None:
                           help="exit 1 when the total share of known expressions is below PERCENT")
     coverage.add_argument("--config", metavar="FILE")
 
+
+def add_declarations(commands) -> None:
     listing = commands.add_parser(
         "declarations", help="list every declared unit and where it came from",
         description="List the units declared in the code (annotations, comments, docstrings, name "

@@ -8,7 +8,6 @@ from __future__ import annotations
 
 import re
 import sys
-from dataclasses import dataclass, field
 from pathlib import Path
 
 
@@ -28,20 +27,35 @@ class ConfigError(Exception):
     """A configuration problem, one line, naming the file and the key."""
 
 
-@dataclass
 class Config:
-    source: Path | None = None  # the file the settings came from, None for defaults
-    paths: list[str] = field(default_factory=list)
-    exclude: list[str] = field(default_factory=list)
-    select: list[str] = field(default_factory=list)  # codes; empty means all
-    ignore: list[str] = field(default_factory=list)
-    fail_on: str = "error"
-    units: list[Path] = field(default_factory=list)
-    stubs: list[Path] = field(default_factory=list)
-    base_dimensions: list[str] = field(default_factory=list)
-    docstring_units: bool = True
-    suffix_units: bool = False
-    name_units: dict[str, str] = field(default_factory=dict)
+    """The settings of a run: the defaults, or what a ``[tool.dimcheck]`` table gives.
+    (A plain class: see the note on records in rules/registry.py.)"""
+
+    def __init__(self, source: Path | None = None, paths: list[str] | None = None,
+                 exclude: list[str] | None = None, select: list[str] | None = None,
+                 ignore: list[str] | None = None, fail_on: str = "error", units: list[Path] | None = None,
+                 stubs: list[Path] | None = None, base_dimensions: list[str] | None = None,
+                 docstring_units: bool = True, suffix_units: bool = False,
+                 name_units: dict[str, str] | None = None):
+        self.source = source  # the file the settings came from, None for defaults
+        self.paths: list[str] = paths or []
+        self.exclude: list[str] = exclude or []
+        self.select: list[str] = select or []  # codes; empty means all
+        self.ignore: list[str] = ignore or []
+        self.fail_on = fail_on
+        self.units: list[Path] = units or []
+        self.stubs: list[Path] = stubs or []
+        self.base_dimensions: list[str] = base_dimensions or []
+        self.docstring_units = docstring_units
+        self.suffix_units = suffix_units
+        self.name_units: dict[str, str] = name_units or {}
+
+    def replace(self, **changes) -> "Config":
+        """A copy with some settings changed."""
+        return Config(**{**vars(self), **changes})
+
+    def __repr__(self) -> str:
+        return "Config(" + ", ".join(f"{name}={value!r}" for name, value in vars(self).items()) + ")"
 
     @property
     def base_dir(self) -> Path:

@@ -30,11 +30,20 @@ def _codes_option(text: str) -> list[str]:
     return [part for part in text.split(",") if part.strip()]
 
 
-def build_parser() -> argparse.ArgumentParser:
+def build_parser(only: str | None = None) -> argparse.ArgumentParser:
+    """The command line's parser; with ``only``, the parser of that one command alone
+    (what running it needs: building every command's parser costs as much as a whole
+    check answered from the cache)."""
     parser = _Parser(prog="dimcheck", description="Static unit and dimension checks for Python code.")
     parser.add_argument("--version", action="version", version=f"dimcheck {__version__}")
     commands = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+    for name, (add_parser, _) in COMMANDS.items():
+        if only is None or name == only:
+            add_parser(commands)
+    return parser
 
+
+def _add_check(commands) -> None:
     check = commands.add_parser("check", help="check files and folders for unit mistakes")
     check.add_argument("paths", nargs="*", metavar="PATH")
     check.add_argument("--format", choices=("text", "json", "sarif"), default="text")
@@ -54,12 +63,9 @@ def build_parser() -> argparse.ArgumentParser:
     recorded.add_argument("--write-baseline", metavar="FILE",
                           help="record the current findings in FILE and exit 0")
 
+
+def _add_rules(commands) -> None:
     commands.add_parser("rules", help="list the rule codes")
-    groups_command.register(commands)
-    analysis_commands.register(commands)
-    annotate_command.register(commands)
-    serve_command.register(commands)
-    return parser
 
 
 def _run_check(args) -> int:
@@ -116,20 +122,28 @@ def _run_rules() -> int:
     return EXIT_CLEAN
 
 
+# Each command: how its parser is added, and what runs it (in the order --help lists them).
+COMMANDS = {
+    "check": (_add_check, _run_check),
+    "rules": (_add_rules, lambda _: _run_rules()),
+    "groups": (groups_command.register, groups_command.run),
+    "explain": (analysis_commands.add_explain, analysis_commands.run_explain),
+    "coverage": (analysis_commands.add_coverage, analysis_commands.run_coverage),
+    "declarations": (analysis_commands.add_declarations, analysis_commands.run_declarations),
+    "annotate": (annotate_command.register, annotate_command.run),
+    "serve": (serve_command.register, serve_command.run),
+}
+
+
 def main(argv: list[str] | None = None) -> int:
     if hasattr(sys.stdout, "reconfigure"):
         sys.stdout.reconfigure(errors="backslashreplace")
-    parser = build_parser()
+    argv = sys.argv[1:] if argv is None else argv
+    parser = build_parser(only=argv[0] if argv and argv[0] in COMMANDS else None)
     try:
         args = parser.parse_args(argv)
-        handlers = {
-            "check": _run_check, "rules": lambda _: _run_rules(), "groups": groups_command.run,
-            "explain": analysis_commands.run_explain, "coverage": analysis_commands.run_coverage,
-            "declarations": analysis_commands.run_declarations, "serve": serve_command.run,
-            "annotate": annotate_command.run,
-        }
-        if args.command in handlers:
-            return handlers[args.command](args)
+        if args.command in COMMANDS:
+            return COMMANDS[args.command][1](args)
         parser.print_help()
         return EXIT_TROUBLE
     except (UsageError, ConfigError) as error:

@@ -17,7 +17,7 @@ from ..units import UnitError, parse_unit
 from ..units.dimension import DIMENSIONLESS
 from .labels import si_label
 from .values import (
-    UNKNOWN, Bare, ClassValue, FunctionValue, Origin, PintFactoryValue, PintMethodValue,
+    UNKNOWN, Bare, ClassValue, FunctionValue, InstanceValue, Origin, PintFactoryValue, PintMethodValue,
     PintRegistryValue, Quantity,
 )
 
@@ -29,9 +29,14 @@ _METHODS = {"to", "ito", "m_as", "check", "compatible_units", "is_compatible_wit
 
 
 def is_pint_stub(value: Any) -> bool:
-    info = getattr(value, "info", None) or getattr(value, "function", None)
-    module = getattr(info, "module", None)
-    return module is not None and module.is_stub and module.name.split(".")[0] == "pint"
+    """A function, class or instance from pint's stubs (this is asked of every call)."""
+    if value.__class__ is FunctionValue:
+        module = value.function.module
+    elif value.__class__ is ClassValue or value.__class__ is InstanceValue:
+        module = value.info.module
+    else:
+        return False
+    return module.is_stub and (module.name == "pint" or module.name.startswith("pint."))
 
 
 _DYNAMIC_UNITS = re.compile(r"\.define\(|load_definitions\(|\.context\(|enable_contexts\(|"

@@ -381,14 +381,12 @@ class Project:
         return found
 
 
-    def resolve_import(self, module: ModuleSymbols, ref: ImportRef) -> str:
+    @staticmethod
+    def resolve_import(module: ModuleSymbols, ref: ImportRef) -> str:
         """The absolute dotted name an import refers to (for ``from x import y``: x)."""
         if ref.level == 0:
             return ref.module
-        package = module.name.split(".") if module.is_package else module.name.split(".")[:-1]
-        if ref.level > 1:
-            package = package[: len(package) - (ref.level - 1)] if len(package) >= ref.level - 1 else []
-        return ".".join(part for part in [*package, ref.module] if part)
+        return _relative_import_target(module.name, module.is_package, ref.module, ref.level)
 
     # -- the fast path --------------------------------------------------------------------
     # A module whose values can all be unknown cannot give a finding, so inference skips
@@ -587,6 +585,14 @@ def _read_again(path: str) -> str:
         return read_source(path)
     except UnreadableFile:
         return ""
+
+
+@lru_cache(maxsize=100_000)  # every module of a package makes the same relative imports
+def _relative_import_target(importer: str, is_package: bool, name: str, level: int) -> str:
+    package = importer.split(".") if is_package else importer.split(".")[:-1]
+    if level > 1:
+        package = package[: len(package) - (level - 1)] if len(package) >= level - 1 else []
+    return ".".join(part for part in [*package, name] if part)
 
 
 class _Pin:

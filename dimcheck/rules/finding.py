@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import os
-from dataclasses import dataclass
+from typing import NamedTuple
 
 from .registry import RULES
 
@@ -16,8 +16,7 @@ def display_path(path: str) -> str:
         return path
 
 
-@dataclass(frozen=True, slots=True)
-class Finding:
+class Finding(NamedTuple):
     path: str
     line: int
     column: int  # 1-based

@@ -1,27 +1,31 @@
-"""Units: dimension vectors, the unit table built from pint, and the unit-expression parser."""
+"""Units: dimension vectors, the unit table built from pint, and the unit-expression parser.
 
-from .dimension import DIMENSIONLESS, Dimension
-from .unit import DIMENSIONLESS_UNIT, Unit, UnitError
-from .table import UnitTable, load_unit_table
+The names below are loaded on first use: a run answered from the result cache needs the
+unit table's key only, and neither the table, exact fractions nor the parser.
+"""
+
+_WHERE = {
+    "DIMENSIONLESS": "dimension",
+    "Dimension": "dimension",
+    "DIMENSIONLESS_UNIT": "unit",
+    "Unit": "unit",
+    "UnitError": "errors",
+    "UnitTable": "table",
+    "load_unit_table": "table",
+    "unit_table_key": "table_key",
+    "parse_unit": "expression",
+}
 
 
 def __getattr__(name: str):
-    # The expression parser is imported on first use: a run answered from the result
-    # cache loads the unit table (for the cache key) but parses no unit.
-    if name == "parse_unit":
-        from .expression import parse_unit
+    module = _WHERE.get(name)
+    if module is None:
+        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+    from importlib import import_module
 
-        return parse_unit
-    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+    value = getattr(import_module(f"{__name__}.{module}"), name)
+    globals()[name] = value  # found by plain lookup from now on
+    return value
 
 
-__all__ = [
-    "DIMENSIONLESS",
-    "DIMENSIONLESS_UNIT",
-    "Dimension",
-    "Unit",
-    "UnitError",
-    "UnitTable",
-    "load_unit_table",
-    "parse_unit",
-]
+__all__ = sorted(_WHERE)

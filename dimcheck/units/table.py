@@ -3,7 +3,7 @@
 Building the table needs pint and takes about a second, so the result is kept
 as a compact JSON file in the user cache directory. A warm run reads that file
 and never imports pint; the cache file name is a hash of everything the table
-depends on (see ``_table_key``), so a new pint or edited definitions rebuild it.
+depends on (see table_key.py), so a new pint or edited definitions rebuild it.
 
 Name resolution copies pint's ``parse_unit_name``: exact name, else every
 (prefix, suffix) split whose middle is a unit, duplicates like kilo+gram versus
@@ -13,20 +13,15 @@ kilogram dropped, first candidate wins. Pint warns about ambiguous names such as
 
 from __future__ import annotations
 
-try:  # the same function hashlib gives, without loading OpenSSL (megabytes of memory)
-    from _blake2 import blake2b
-except ImportError:  # pragma: no cover - a Python built without it
-    from hashlib import blake2b
 import json
 import os
 from pathlib import Path
 from typing import Sequence
 
 from .dimension import DIMENSIONLESS, Dimension
-from .unit import Unit, UnitError
-
-# Bump when the JSON layout or the way entries are computed changes.
-TABLE_FORMAT_VERSION = 1
+from .errors import UnitError
+from .table_key import TABLE_FORMAT_VERSION, definition_inputs, table_key
+from .unit import Unit
 
 # Dimension index of a unit pint knows but we cannot represent (logarithmic units
 # such as dB): its names must still block prefix/plural fallbacks, or "dB" would
@@ -197,15 +192,8 @@ def load_unit_table(
     ``default_cache_dir``). Raises ``UnitError`` for a definition file that is
     missing or that pint cannot load.
     """
-    paths = [Path(path) for path in definition_files]
-    contents = []
-    for path in paths:
-        try:
-            contents.append(path.read_bytes())
-        except OSError as error:
-            raise UnitError(f"cannot read unit definition file {path}: {error.strerror or error}") from None
-    extras = list(dict.fromkeys(name.strip().strip("[]") for name in extra_base_dimensions))
-    key = _table_key(contents, extras)
+    paths, contents, extras = definition_inputs(definition_files, extra_base_dimensions)
+    key = table_key(contents, extras)
     table = _MEMO.get(key)
     if table is not None:
         return table
@@ -228,34 +216,6 @@ def default_cache_dir() -> Path:
     if xdg:
         return Path(xdg) / "dimcheck"
     return Path.home() / ".cache" / "dimcheck"
-
-
-def _pint_version() -> str:
-    """Which pint is installed, without importing it (nor importlib.metadata, which costs
-    more than the whole warm table load): the installed package's version file, falling
-    back to the location and modification time of its ``__init__``."""
-    import importlib.util
-
-    spec = importlib.util.find_spec("pint")
-    if spec is None or not spec.origin:
-        return "missing"
-    package = os.path.dirname(spec.origin)
-    parent = os.path.dirname(package)
-    try:
-        for name in os.listdir(parent):
-            if name.startswith("pint-") and name.endswith(".dist-info"):
-                return name[len("pint-"):-len(".dist-info")]
-        stat = os.stat(spec.origin)
-    except OSError:
-        return "unknown"
-    return f"{spec.origin}:{stat.st_mtime_ns}:{stat.st_size}"
-
-
-def _table_key(contents: Sequence[bytes], extras: Sequence[str]) -> str:
-    digest = blake2b()
-    parts = [str(TABLE_FORMAT_VERSION), _pint_version(), *(blake2b(c).hexdigest() for c in contents), "|", *extras]
-    digest.update("\n".join(parts).encode())
-    return digest.hexdigest()
 
 
 def _read_cache(cache_file: Path, key: str) -> UnitTable | None:

@@ -5,14 +5,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from .dimension import DIMENSIONLESS, Dimension
-
-
-class UnitError(ValueError):
-    """A unit expression that cannot be parsed or names an unknown unit.
-
-    The message is one line meant for the user (it becomes a DIM901 finding), for
-    example ``unknown unit 'metr' in 'metr/s' (did you mean: meter, metre?)``.
-    """
+from .errors import UnitError
 
 
 @dataclass(frozen=True, slots=True)

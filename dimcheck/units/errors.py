@@ -1,0 +1,9 @@
+"""The one error of the units package (its own module: cheap to import anywhere)."""
+
+
+class UnitError(ValueError):
+    """A unit expression that cannot be parsed or names an unknown unit.
+
+    The message is one line meant for the user (it becomes a DIM901 finding), for
+    example ``unknown unit 'metr' in 'metr/s' (did you mean: meter, metre?)``.
+    """

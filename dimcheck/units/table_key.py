@@ -1,0 +1,66 @@
+"""What identifies a unit table: pint's version, the user's definition files and extra
+base dimensions. The result cache keys on it without loading the table (table.py)."""
+
+from __future__ import annotations
+
+try:  # the same function hashlib gives, without loading OpenSSL (megabytes of memory)
+    from _blake2 import blake2b
+except ImportError:  # pragma: no cover - a Python built without it
+    from hashlib import blake2b
+import os
+from pathlib import Path
+from typing import Sequence
+
+from .errors import UnitError
+
+# Bump when the JSON layout or the way entries are computed changes.
+TABLE_FORMAT_VERSION = 1
+
+
+def unit_table_key(definition_files: Sequence[str | Path] = (),
+                   extra_base_dimensions: Sequence[str] = ()) -> str:
+    """The key of the table ``load_unit_table`` would give, without loading it: what a
+    result cache needs to know (raises ``UnitError`` for an unreadable definition file)."""
+    _, contents, extras = definition_inputs(definition_files, extra_base_dimensions)
+    return table_key(contents, extras)
+
+
+def definition_inputs(definition_files: Sequence[str | Path], extra_base_dimensions: Sequence[str]):
+    """The definition files (paths and contents) and the extra base dimension names."""
+    paths = [Path(path) for path in definition_files]
+    contents = []
+    for path in paths:
+        try:
+            contents.append(path.read_bytes())
+        except OSError as error:
+            raise UnitError(f"cannot read unit definition file {path}: {error.strerror or error}") from None
+    extras = list(dict.fromkeys(name.strip().strip("[]") for name in extra_base_dimensions))
+    return paths, contents, extras
+
+
+def _pint_version() -> str:
+    """Which pint is installed, without importing it (nor importlib.metadata, which costs
+    more than the whole warm table load): the installed package's version file, falling
+    back to the location and modification time of its ``__init__``."""
+    import importlib.util
+
+    spec = importlib.util.find_spec("pint")
+    if spec is None or not spec.origin:
+        return "missing"
+    package = os.path.dirname(spec.origin)
+    parent = os.path.dirname(package)
+    try:
+        for name in os.listdir(parent):
+            if name.startswith("pint-") and name.endswith(".dist-info"):
+                return name[len("pint-"):-len(".dist-info")]
+        stat = os.stat(spec.origin)
+    except OSError:
+        return "unknown"
+    return f"{spec.origin}:{stat.st_mtime_ns}:{stat.st_size}"
+
+
+def table_key(contents: Sequence[bytes], extras: Sequence[str]) -> str:
+    digest = blake2b()
+    parts = [str(TABLE_FORMAT_VERSION), _pint_version(), *(blake2b(c).hexdigest() for c in contents), "|", *extras]
+    digest.update("\n".join(parts).encode())
+    return digest.hexdigest()
