@@ -167,10 +167,9 @@ class ModuleSymbols:
     pint_dynamic: bool | None = None  # defines pint units or contexts at run time (pint_support)
     # a docstring or a name pattern declares something here (the fast path must not skip it)
     declares_from_text: bool = False
-    # names that only a def or class statement binds (see definition_only_names), and
-    # names that only one import binds (the evaluator leaves them to be resolved on use)
-    definition_only: frozenset[str] | None = None
-    import_only: frozenset[str] = frozenset()
+    # names of its functions, classes and imports that something else binds too (usually
+    # none): see bound_only_by_definition and bound_only_by_import
+    bound_again: frozenset[str] | None = None
     # called with the module after ``restore_tree`` (the project counts resident trees)
     on_restore: object = None
     # reads the source again after a release (None: the source is kept, as for notebooks)
@@ -581,37 +580,43 @@ def _top_level_statements(body):
             yield stmt
 
 
-def definition_only_names(module: ModuleSymbols) -> frozenset[str]:
-    """The module's functions and classes whose name no other statement binds: their value
-    is the definition itself, known without evaluating the module. Found when the module
-    is collected (``collect_symbols``), while its tree is at hand."""
-    if module.definition_only is None:
-        module.definition_only, module.import_only = _single_bindings(module)
-    return module.definition_only
+def bound_only_by_definition(module: ModuleSymbols, name: str) -> bool:
+    """Whether a function or class of the module is bound by its def or class statement
+    alone: its value is the definition itself, known without evaluating the module."""
+    return (name in module.functions or name in module.classes) and name not in _bound_again(module)
 
 
-def _single_bindings(module: ModuleSymbols) -> tuple[frozenset[str], frozenset[str]]:
-    """The top-level names bound only once: by a def or class statement (their value is
-    the definition), and by an import (``import_only``)."""
-    first_binding: dict[str, str] = {}  # name -> "definition", "import" or "other"
-    bound_again: set[str] = set()
+def bound_only_by_import(module: ModuleSymbols, name: str) -> bool:
+    """Whether one import is all that binds a module-level name (the evaluator then
+    resolves it on first use)."""
+    return name in module.imports and name not in _bound_again(module)
 
-    def bind(name: str, kind: str) -> None:
-        if name in first_binding:
-            bound_again.add(name)
-        else:
-            first_binding[name] = kind
+
+def _bound_again(module: ModuleSymbols) -> frozenset[str]:
+    if module.bound_again is None:  # found when the module is collected, tree at hand
+        module.bound_again = _names_bound_again(module)
+    return module.bound_again
+
+
+def _names_bound_again(module: ModuleSymbols) -> frozenset[str]:
+    """The module's functions, classes and imports whose name more than one top-level
+    statement binds (or one that binds it twice)."""
+    bound: set[str] = set()
+    again: set[str] = set()
+
+    def bind(name: str) -> None:
+        (again if name in bound else bound).add(name)
 
     # without a walrus anywhere, only targets bind: values and expression statements need
     # no walk (some modules hold large tables or documentation calls at the top level)
     walrus = ":=" in module.source
     for stmt in _top_level_statements(module.tree.body):
         if isinstance(stmt, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef)):
-            bind(stmt.name, "definition")
+            bind(stmt.name)
             continue
         if isinstance(stmt, (ast.Import, ast.ImportFrom)):
             for name in _imported_names(stmt):
-                bind(name, "import")
+                bind(name)
             continue
         if walrus:
             parts = [stmt]
@@ -626,17 +631,18 @@ def _single_bindings(module: ModuleSymbols) -> tuple[frozenset[str], frozenset[s
         for part in parts:
             for node in ast.walk(part):
                 if isinstance(node, ast.Name) and not isinstance(node.ctx, ast.Load):
-                    bind(node.id, "other")
+                    bind(node.id)
                 elif isinstance(node, (ast.Import, ast.ImportFrom)):
                     for name in _imported_names(node):
-                        bind(name, "other")
+                        bind(name)
                 elif isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef)):
-                    bind(node.name, "other")
-    once = {name: kind for name, kind in first_binding.items() if name not in bound_again}
-    definitions = frozenset(name for name, kind in once.items() if kind == "definition"
-                            and (name in module.functions or name in module.classes))
-    imports = frozenset(name for name, kind in once.items() if kind == "import" and name in module.imports)
-    return definitions, imports
+                    bind(node.name)
+    found = {name for name in again if name in module.functions or name in module.classes
+             or name in module.imports}
+    return frozenset(found) if found else _NO_NAMES  # one shared empty set: most modules
+
+
+_NO_NAMES: frozenset[str] = frozenset()
 
 
 def _imported_names(stmt: ast.Import | ast.ImportFrom) -> list[str]:
@@ -714,7 +720,7 @@ def collect_symbols(module: ModuleSymbols) -> ModuleSymbols:
                 for target in stmt.targets:
                     if isinstance(target, ast.Name):
                         module.globals_declared[target.id] = (spec, SourceSpan(stmt))
-    module.definition_only, module.import_only = _single_bindings(module)
+    module.bound_again = _names_bound_again(module)
     return module
 
 

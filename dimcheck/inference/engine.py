@@ -16,7 +16,8 @@ from dataclasses import dataclass, field
 from typing import Any
 
 from ..declarations.symbols import (
-    ClassInfo, FunctionInfo, ImportRef, ModuleSymbols, ParamInfo, definition_only_names, make_function,
+    ClassInfo, FunctionInfo, ImportRef, ModuleSymbols, ParamInfo, bound_only_by_definition,
+    bound_only_by_import, make_function,
 )
 from ..rules import checks
 from ..rules.checks import Problem
@@ -124,7 +125,7 @@ class Engine:
 
     def module_name_value(self, module: ModuleSymbols, name: str) -> Any:
         if module.path not in self._module_envs and not module.is_stub \
-                and name in definition_only_names(module):
+                and bound_only_by_definition(module, name):
             # a function or class only its definition binds: no need to evaluate the whole
             # module (and, in turn, everything it imports) to know what the name holds
             return FunctionValue(module.functions[name]) if name in module.functions \
@@ -143,7 +144,7 @@ class Engine:
             return ClassValue(module.classes[name])
         if name in module.imports:
             value = self.import_value(module, module.imports[name])
-            if name in module.import_only:
+            if bound_only_by_import(module, name):
                 env[name] = value  # what evaluating its import statement would have bound
             return value
         if not module.is_stub or module.name != "builtins":
@@ -624,7 +625,7 @@ def bind_arguments(function: FunctionInfo, bound_self: Any, args: list, keywords
         elif vararg is not None:
             result.setdefault(vararg, []).append((value, node))
     for name, (value, node) in keywords.items():
-        if name in by_keyword:  # (the star of **kwargs is no str: never in it)
+        if name in by_keyword:  # (the star of **kwargs is no name: never in it)
             result[name] = [(value, node)]
     return result
 
@@ -634,8 +635,9 @@ def _call_signature(function: FunctionInfo) -> tuple:
     taking positional arguments, the ``*args`` name, the names a keyword may give."""
     positional = tuple(p.name for p in function.params if p.kind == "positional")
     vararg = next((p.name for p in function.params if p.kind == "vararg"), None)
-    by_keyword = frozenset(p.name for p in function.params
-                           if p.kind in ("positional", "keyword") and not p.positional_only)
+    # tuples, not sets: a few names each, kept for thousands of functions
+    by_keyword = tuple(p.name for p in function.params
+                       if p.kind in ("positional", "keyword") and not p.positional_only)
     return positional, vararg, by_keyword
 
 

@@ -16,7 +16,7 @@ from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
 
 from ..declarations.symbols import FunctionInfo, make_function, read_annotation, record_import
-from ..declarations.symbols import comment_spec, name_spec
+from ..declarations.symbols import bound_only_by_definition, bound_only_by_import, comment_spec, name_spec
 from ..rules import checks
 from ..units.dimension import DIMENSIONLESS
 from ..rules.checks import Problem
@@ -439,9 +439,8 @@ class ScopeEvaluator:
         record_import(imports, node)
         # A module-level name that only this import binds is resolved on first use
         # (Engine.module_name_value): most imported names are read in annotations only.
-        lazy = self.module.import_only if self.is_module_scope else ()
         for local, ref in imports.items():
-            if local not in lazy:
+            if not (self.is_module_scope and bound_only_by_import(self.module, local)):
                 self.env[local] = self.engine.import_value(self.module, ref)
 
     _stmt_ImportFrom = _stmt_Import
@@ -450,6 +449,8 @@ class ScopeEvaluator:
         for decorator in node.decorator_list:
             self.expr(decorator)
         if self.is_module_scope:
+            if bound_only_by_definition(self.module, node.name):
+                return  # Engine.module_name_value gives the definition: no value to keep
             info = self.module.functions.get(node.name)
             if info is None or info.node is not node:
                 info = make_function(self.module, node, node.name, None)

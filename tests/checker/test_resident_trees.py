@@ -13,7 +13,11 @@ import dimcheck.runner as runner
 from dimcheck import check_paths
 from dimcheck.runner import check_paths as run_paths
 import dimcheck.declarations.symbols as symbols
-from dimcheck.declarations.symbols import ModuleSymbols, collect_symbols, definition_only_names
+import dimcheck.inference.engine as engine
+import dimcheck.inference.evaluator as evaluator
+from dimcheck.declarations.symbols import (
+    ModuleSymbols, bound_only_by_definition, bound_only_by_import, collect_symbols,
+)
 from dimcheck.inference.project import Project
 
 ROOT = Path(__file__).resolve().parents[2]
@@ -131,7 +135,8 @@ def test_definition_only_names_leave_out_names_bound_again():
             def guarded(): ...
         '''))
     module = collect_symbols(ModuleSymbols("m.py", "m", tree, "", {}))
-    assert definition_only_names(module) == {"plain", "Kept", "guarded"}
+    names = ["functools", "plain", "wrapped", "Kept", "Twice", "looped", "guarded"]
+    assert [name for name in names if bound_only_by_definition(module, name)] == ["plain", "Kept", "guarded"]
 
 
 def test_import_only_names_are_those_one_import_binds():
@@ -152,16 +157,18 @@ def test_import_only_names_are_those_one_import_binds():
             from inside import nested
         '''))
     module = collect_symbols(ModuleSymbols("m.py", "m", tree, "", {}))
-    assert module.import_only == {"math", "np", "helper"}
+    names = ["math", "np", "os", "helper", "speed", "shadowed", "nested", "undefined"]
+    assert [name for name in names if bound_only_by_import(module, name)] == ["math", "np", "helper"]
 
 
 @pytest.mark.parametrize("fixture", FIXTURES, ids=lambda path: path.name)
-def test_imports_resolved_on_use_find_what_eager_imports_find(fixture, monkeypatch):
-    # Names only one import binds are resolved when first read, not at the import.
+def test_names_left_unbound_at_module_level_find_what_binding_them_finds(fixture, monkeypatch):
+    # Names only one import binds are resolved when first read, and functions only their
+    # def binds are not kept in the module's environment; binding both gives the same.
     lazy = _findings([str(fixture)])
-    single_bindings = symbols._single_bindings
-    monkeypatch.setattr(symbols, "_single_bindings",
-                        lambda module: (single_bindings(module)[0], frozenset()))
+    for module in (symbols, evaluator, engine):
+        monkeypatch.setattr(module, "bound_only_by_import", lambda module, name: False)
+        monkeypatch.setattr(module, "bound_only_by_definition", lambda module, name: False)
     assert _findings([str(fixture)]) == lazy
 
 
