@@ -206,6 +206,7 @@ def quantities_share_scale(a: "Quantity", b: "Quantity") -> bool:
     return scales_overlap(a.scales, b.scales, a.tolerance + b.tolerance)
 
 
+@lru_cache(maxsize=10_000, typed=True)  # factors repeat; typed: an int is always exact
 def literal_tolerance(value: float) -> float:
     """How exact a typed factor is: 0 for short literals (1000, 0.0254, 3.6e6), else half a
     unit in its last significant digit, relative (6894.757 -> 5e-7)."""

@@ -30,18 +30,20 @@ def _sort_key(name: str) -> tuple[int, str]:
     return (_ORDER.get(name, len(_ORDER)), name)
 
 
+# Every dimension made so far, by exponents: as many as distinct dimensions in the code
+# checked, a few hundred at most in practice.
 _CANONICAL: dict[tuple, "Dimension"] = {}
-_MAX_CANONICAL = 100_000
 
 
 class Dimension:
     """An immutable product of base dimensions raised to rational powers.
 
-    Equal dimensions are one object (up to ``_MAX_CANONICAL`` of them): comparing two is
-    then an identity check, not a comparison of their Fractions.
+    Equal dimensions are one object (``__new__`` hands out the one already made), so
+    equality and hashing are by identity, done in C: a check compares dimensions at
+    every operation, and the results of operations are looked up by their operands.
     """
 
-    __slots__ = ("exponents", "_hash")
+    __slots__ = ("exponents",)
     exponents: tuple[tuple[str, Fraction], ...]
 
     def __new__(cls, exponents: Iterable[tuple[str, Fraction]] = ()) -> "Dimension":
@@ -53,11 +55,8 @@ class Dimension:
         key = tuple(sorted(((n, p) for n, p in cleaned.items() if p), key=lambda item: _sort_key(item[0])))
         found = _CANONICAL.get(key)
         if found is None:
-            found = object.__new__(cls)
+            found = _CANONICAL[key] = object.__new__(cls)
             found.exponents = key
-            found._hash = hash(key)
-            if len(_CANONICAL) < _MAX_CANONICAL:
-                _CANONICAL[key] = found
         return found
 
     def __reduce__(self):
@@ -80,7 +79,7 @@ class Dimension:
             return self
         if not self.exponents:
             return other
-        key = ("*", self, other)  # hashes the cached hash, not the Fractions
+        key = ("*", self, other)  # hashed by identity, not by the Fractions
         found = _RESULTS.get(key)
         if found is None:
             found = _remember(key, Dimension(self.exponents + other.exponents))
@@ -113,18 +112,10 @@ class Dimension:
     def as_dict(self) -> dict[str, Fraction]:
         return dict(self.exponents)
 
-    # -- identity ------------------------------------------------------------------
-    def __eq__(self, other: object) -> bool:
-        return self is other or (isinstance(other, Dimension) and self._hash == other._hash
-                                 and self.exponents == other.exponents)
-
-    def __hash__(self) -> int:
-        return self._hash
-
+    # -- display -------------------------------------------------------------------
     def __repr__(self) -> str:
         return f"Dimension({self.format()})"
 
-    # -- display -------------------------------------------------------------------
     def format(self) -> str:
         """Engineer's notation, such as ``L T^-1`` or ``M L^-1 T^-2``; ``1`` when dimensionless."""
         if not self.exponents:
