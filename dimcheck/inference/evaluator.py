@@ -480,11 +480,17 @@ class ScopeEvaluator:
         if node is None:
             return UNKNOWN
         engine = self.engine
-        if node.__class__ is ast.Name and engine.observer is None:
-            # half of all nodes: a local name, read without the nesting count or a handler
-            found = self.env.get(node.id, _NOT_BOUND)
-            if found is not _NOT_BOUND:
-                return found
+        if engine.observer is None:
+            # Leaves, more than half of all nodes, without the nesting count or a handler:
+            # a local name, and a number (as _expr_Constant reads it)
+            node_class = node.__class__
+            if node_class is ast.Name:
+                found = self.env.get(node.id, _NOT_BOUND)
+                if found is not _NOT_BOUND:
+                    return found
+            elif node_class is ast.Constant:
+                value = node.value
+                return Bare(value) if value.__class__ is int or value.__class__ is float else UNKNOWN
         if engine.depth > engine.depth_budget:
             return UNKNOWN
         engine.depth += 1
@@ -539,16 +545,23 @@ class ScopeEvaluator:
         return value
 
     def binary(self, node: ast.AST, op: ast.operator, left: Any, right: Any, augmented: bool = False) -> Any:
-        # The common case first: two plain quantities, no pint, no offset temperature. It
-        # gives what the general path below gives, without its checks (none can apply).
-        if (left.__class__ is Quantity and right.__class__ is Quantity
-                and not (left.pint or right.pint or left.offset or right.offset)):
+        # The common cases first: two plain quantities (no pint, no offset temperature), or
+        # one times a number. They give what the general path below gives, without its
+        # checks (none can apply).
+        left_class, right_class = left.__class__, right.__class__
+        if left_class is Quantity and right_class is Quantity \
+                and not (left.pint or right.pint or left.offset or right.offset):
             op_type = op.__class__
             if op_type is ast.Mult or op_type is ast.Div:
                 return quantity_product(left, right, op_type is ast.Div)
             if (op_type is ast.Add or op_type is ast.Sub) and left.scales == right.scales \
                     and left.dimension == right.dimension:
                 return left
+        elif (left_class is Quantity and right_class is Bare and not (left.pint or left.offset)) \
+                or (left_class is Bare and right_class is Quantity and not (right.pint or right.offset)):
+            op_type = op.__class__
+            if op_type is ast.Mult or op_type is ast.Div:
+                return self._product(left, right, op_type is ast.Div)
         if isinstance(op, (ast.Add, ast.Sub)):
             verb = "add" if isinstance(op, ast.Add) else "subtract"
             self.report(node, checks.check_combination(verb, left, right)
@@ -614,13 +627,14 @@ class ScopeEvaluator:
         if isinstance(left, Quantity) and isinstance(right, Quantity):
             return quantity_product(left, right, divide)
         if isinstance(left, Quantity) and isinstance(right, Bare):
-            return left.replace(scales=scale_by_bare(left.scales, right.value, divide), origin=None,
-                                tolerance=left.tolerance + literal_tolerance(right.value))
+            return Quantity(left.dimension, scale_by_bare(left.scales, right.value, divide), left._label,
+                            left.derived, None, left.offset, left.tolerance + literal_tolerance(right.value),
+                            left.pint)
         if isinstance(left, Bare) and isinstance(right, Quantity):
             tolerance = right.tolerance + literal_tolerance(left.value)
             if not divide:
-                return right.replace(scales=scale_by_bare(right.scales, left.value, False), origin=None,
-                                     tolerance=tolerance)
+                return Quantity(right.dimension, scale_by_bare(right.scales, left.value, False), right._label,
+                                right.derived, None, right.offset, tolerance, right.pint)
             inverse = quantity_product(_ONE, right, divide=True)
             return inverse.replace(scales=scale_by_bare(inverse.scales, left.value, False), tolerance=tolerance)
         if isinstance(left, Bare) and isinstance(right, Bare):

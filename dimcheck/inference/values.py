@@ -264,6 +264,12 @@ def scale_by_bare(scales, factor: float, divide: bool):
     """A value times (or over) a bare factor: still in its unit, or converted by it."""
     if scales is None or factor == 0 or not math.isfinite(factor):
         return scales
+    if len(scales) == 1:  # the usual case: (s,) or (s, converted)
+        scale = scales[0]
+        converted = scale * factor if divide else scale / factor
+        if converted == 0 or not math.isfinite(converted) or scale == 0 or not math.isfinite(scale):
+            return None
+        return scales if _close(converted, scale) else (scale, converted)
     converted = [s * factor if divide else s / factor for s in scales]
     return _dedupe(list(scales) + converted)
 
