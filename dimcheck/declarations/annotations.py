@@ -89,6 +89,8 @@ def read_annotation(node: ast.AST | None, _depth: int = 0) -> UnitText | AliasRe
     """The unit declared by an annotation expression, an alias to resolve, or None."""
     if node is None or _depth > 8:
         return None
+    if node.__class__ is ast.Name:  # the usual case, ``rho: Density``: read without the search below
+        return _alias_ref((node.id,))
     if isinstance(node, ast.Constant) and isinstance(node.value, str):
         # A string annotation (forward reference): parse it as an expression, never run it.
         if len(node.value) > 2000:

@@ -615,7 +615,7 @@ def _names_bound_again(module: ModuleSymbols) -> frozenset[str]:
             bind(stmt.name)
             continue
         if isinstance(stmt, (ast.Import, ast.ImportFrom)):
-            for name in _imported_names(stmt):
+            for name in imported_names(stmt):
                 bind(name)
             continue
         if walrus:
@@ -629,11 +629,14 @@ def _names_bound_again(module: ModuleSymbols) -> frozenset[str]:
         else:  # loops, with-blocks, del, match: walk them whole
             parts = [stmt]
         for part in parts:
+            if part.__class__ is ast.Name:  # ``x = ...``: no walk needed
+                bind(part.id)
+                continue
             for node in ast.walk(part):
                 if isinstance(node, ast.Name) and not isinstance(node.ctx, ast.Load):
                     bind(node.id)
                 elif isinstance(node, (ast.Import, ast.ImportFrom)):
-                    for name in _imported_names(node):
+                    for name in imported_names(node):
                         bind(name)
                 elif isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef)):
                     bind(node.name)
@@ -645,7 +648,7 @@ def _names_bound_again(module: ModuleSymbols) -> frozenset[str]:
 _NO_NAMES: frozenset[str] = frozenset()
 
 
-def _imported_names(stmt: ast.Import | ast.ImportFrom) -> list[str]:
+def imported_names(stmt: ast.Import | ast.ImportFrom) -> list[str]:
     """The names an import statement binds (``from m import *`` binds none it names)."""
     return [alias.asname or alias.name.split(".")[0] for alias in stmt.names if alias.name != "*"]
 

@@ -15,8 +15,10 @@ import ast
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
 
-from ..declarations.symbols import FunctionInfo, make_function, read_annotation, record_import
-from ..declarations.symbols import bound_only_by_definition, bound_only_by_import, comment_spec, name_spec
+from ..declarations.symbols import (
+    FunctionInfo, bound_only_by_definition, bound_only_by_import, comment_spec, imported_names, make_function,
+    name_spec, read_annotation, record_import,
+)
 from ..rules import checks
 from ..units.dimension import DIMENSIONLESS
 from ..rules.checks import Problem
@@ -435,10 +437,12 @@ class ScopeEvaluator:
         pass
 
     def _stmt_Import(self, node) -> None:
-        imports: dict = {}
-        record_import(imports, node)
         # A module-level name that only this import binds is resolved on first use
         # (Engine.module_name_value): most imported names are read in annotations only.
+        if self.is_module_scope and all(bound_only_by_import(self.module, local) for local in imported_names(node)):
+            return
+        imports: dict = {}
+        record_import(imports, node)
         for local, ref in imports.items():
             if not (self.is_module_scope and bound_only_by_import(self.module, local)):
                 self.env[local] = self.engine.import_value(self.module, ref)
