@@ -288,10 +288,13 @@ class Engine:
         enclosing.problems.extend(result.problems)
 
     def run_class_body(self, info: ClassInfo, enclosing: ScopeEvaluator) -> None:
+        body = [stmt for stmt in info.node.body
+                if not isinstance(stmt, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef))]
+        if all(_declares_only(stmt) for stmt in body):
+            return  # a record's field list: nothing to evaluate (read_class read the declarations)
         scope = ScopeEvaluator(self, info.module, {}, closure=enclosing)
         with self.project.pinned(info.module):
-            scope.run([stmt for stmt in info.node.body
-                       if not isinstance(stmt, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef))])
+            scope.run(body)
         enclosing.problems.extend(scope.problems)
 
     def baseline(self, function: FunctionInfo) -> FunctionResult:
@@ -603,6 +606,14 @@ class Engine:
         for info in module.classes.values():
             for spec, _ in info.attributes.values():
                 self.declared(module, spec)
+
+
+def _declares_only(stmt: ast.stmt) -> bool:
+    """A class-body statement with nothing to evaluate: ``x: Length`` with no value, the
+    docstring, ``pass``."""
+    if isinstance(stmt, ast.AnnAssign):
+        return stmt.value is None and isinstance(stmt.target, ast.Name)
+    return isinstance(stmt, ast.Pass) or (isinstance(stmt, ast.Expr) and isinstance(stmt.value, ast.Constant))
 
 
 def _any_pint(bound: dict) -> bool:
