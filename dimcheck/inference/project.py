@@ -65,7 +65,7 @@ class UnreadableFile(Exception):
 
 def read_source(path: str) -> str:
     try:
-        with open(path, "rb") as handle:
+        with open(path, "rb", buffering=0) as handle:  # unbuffered: one read of the whole file
             data = handle.read()
     except IsADirectoryError:
         raise UnreadableFile("is a directory, not a file") from None
