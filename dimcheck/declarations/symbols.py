@@ -99,7 +99,7 @@ class FunctionInfo:
 
     @property
     def is_property(self) -> bool:
-        return bool(self.decorators & {"property", "cached_property"})
+        return "property" in self.decorators or "cached_property" in self.decorators
 
     @property
     def line(self) -> int:

@@ -186,18 +186,7 @@ class Engine:
 
     # == attributes ========================================================================
     def attribute_value(self, owner: Any, attr: str, evaluator: ScopeEvaluator) -> Any:
-        if isinstance(owner, PintRegistryValue) or (isinstance(owner, Quantity) and owner.pint):
-            return self.pint.attribute(owner, attr, evaluator.module if evaluator is not None else None)
-        if isinstance(owner, ModuleValue):
-            requester = evaluator.module if evaluator is not None else None
-            target = self.project.find_from(requester, owner.name)
-            if target is not None and self._defines(target, attr):
-                return self.module_name_value(target, attr)
-            submodule = f"{owner.name}.{attr}"
-            if self.project.find_from(requester, submodule) is not None:
-                return ModuleValue(submodule)
-            return self.module_name_value(target, attr) if target is not None else UNKNOWN
-        if isinstance(owner, (InstanceValue, ClassValue)):
+        if owner.__class__ is InstanceValue or owner.__class__ is ClassValue:  # the usual case first
             found = self._class_member(owner.info, attr, 0)
             if found is None:
                 return self._inferred_attribute(owner.info, attr) if isinstance(owner, InstanceValue) else UNKNOWN
@@ -213,6 +202,17 @@ class Engine:
             if function.is_classmethod:
                 return FunctionValue(function, owner)
             return FunctionValue(function)
+        if isinstance(owner, PintRegistryValue) or (isinstance(owner, Quantity) and owner.pint):
+            return self.pint.attribute(owner, attr, evaluator.module if evaluator is not None else None)
+        if isinstance(owner, ModuleValue):
+            requester = evaluator.module if evaluator is not None else None
+            target = self.project.find_from(requester, owner.name)
+            if target is not None and self._defines(target, attr):
+                return self.module_name_value(target, attr)
+            submodule = f"{owner.name}.{attr}"
+            if self.project.find_from(requester, submodule) is not None:
+                return ModuleValue(submodule)
+            return self.module_name_value(target, attr) if target is not None else UNKNOWN
         if isinstance(owner, Quantity):
             if attr in _ARRAY_ATTRIBUTES:
                 return owner
@@ -596,8 +596,7 @@ class Engine:
     def _validate_declarations(self, module: ModuleSymbols) -> None:
         """Parse every declaration of the module, used or not, so bad units are reported."""
         for function in module.all_functions:
-            for param in function.params:
-                self.declared(module, param.spec)
+            self.parameter_declarations(function)  # resolved once, usually by the baseline already
             self.declared(module, function.return_spec)
         for spec in module.aliases.values():
             self.declared(module, spec)

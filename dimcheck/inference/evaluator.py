@@ -22,7 +22,7 @@ from ..declarations.symbols import (
 from ..rules import checks
 from ..units.dimension import DIMENSIONLESS
 from ..rules.checks import Problem
-from .generic import GenericUnit, raise_quantity
+from .generic import raise_quantity
 from .values import (
     UNKNOWN, Bare, ClassValue, FunctionValue, InstanceValue, ModuleValue, Quantity,
     TupleValue, Unknown, exact_exponent, intersect_scales, literal_tolerance, quantity_product,
@@ -160,11 +160,8 @@ class ScopeEvaluator:
             self.problems.append(located)
 
     # -- declarations -------------------------------------------------------------------
-    def declared_value(self, spec) -> Quantity | GenericUnit | None:
-        return self.engine.declared(self.module, spec)
-
     def declare(self, name: str, spec) -> Quantity | None:
-        quantity = self.declared_value(spec)
+        quantity = self.engine.declared(self.module, spec)
         if isinstance(quantity, Quantity):
             self.declared[name] = quantity
             if self.is_module_scope or name in self.global_names:
@@ -303,7 +300,7 @@ class ScopeEvaluator:
         value = self.expr(node.value) if node.value is not None else UNKNOWN
         if self.function is not None and node.value is not None and self.function.pint_wrapper != "wraps":
             # (under pint's @wraps the declared unit is attached to whatever number comes back)
-            declared = self.declared_value(self.function.return_spec)
+            declared = self.engine.declared(self.module, self.function.return_spec)
             if isinstance(declared, Quantity):
                 self.report(node.value, checks.check_binding(
                     f"return value of {self.function.name}()", declared, value))

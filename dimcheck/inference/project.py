@@ -357,7 +357,10 @@ class Project:
         """``find_module`` on behalf of a module, remembering that it depends on the result."""
         target = self.find_module(name)
         if requester is not None:
-            used = self.dependencies.setdefault(self._absolute(requester.path), set())
+            user = self._absolute(requester.path)
+            used = self.dependencies.get(user)
+            if used is None:
+                used = self.dependencies[user] = set()
             if target is not None:
                 used.add(self._absolute(target.path))
             elif not self.has_stub(name):  # a file appearing there changes things

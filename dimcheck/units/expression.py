@@ -35,7 +35,8 @@ from fractions import Fraction
 
 from .dimension import DIMENSIONLESS, Dimension
 from .table import UnitTable
-from .unit import Unit, UnitError
+from .errors import UnitError
+from .unit import Unit
 
 MAX_LENGTH = 200
 MAX_NESTING = 40

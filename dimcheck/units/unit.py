@@ -5,7 +5,6 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from .dimension import DIMENSIONLESS, Dimension
-from .errors import UnitError
 
 
 @dataclass(frozen=True, slots=True)
