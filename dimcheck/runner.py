@@ -10,7 +10,6 @@ import gc
 import os
 import sys
 from contextlib import contextmanager
-from typing import TYPE_CHECKING
 
 from .cache import ResultCache, cache_key, default_folder
 from .cli.config import Config, ConfigError
@@ -20,6 +19,7 @@ from .rules.finding import Finding, display_path
 from .rules.registry import RULES, SEVERITY_RANK
 from .units import UnitError, unit_table_key
 
+TYPE_CHECKING = False  # (typing.TYPE_CHECKING, without importing typing on the cache's path)
 if TYPE_CHECKING:  # imported where they are used, so a run answered from the cache skips them
     from .declarations.symbols import DeclarationOptions
     from .inference.engine import Engine

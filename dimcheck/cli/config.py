@@ -77,14 +77,15 @@ def find_config(start: Path) -> Path | None:
     for folder in [start, *start.parents]:
         candidate = folder / "pyproject.toml"
         if candidate.is_file():
-            tomllib = _toml()
             try:
                 text = candidate.read_text(encoding="utf-8")
-                if "dimcheck" not in text:
-                    continue  # no [tool.dimcheck] table can be in it: no need to parse it
-                data = tomllib.loads(text)
             except (OSError, UnicodeDecodeError) as error:
                 raise ConfigError(f"{candidate}: cannot read: {error}") from None
+            if "dimcheck" not in text:
+                continue  # no [tool.dimcheck] table can be in it: no need to parse it
+            tomllib = _toml()
+            try:
+                data = tomllib.loads(text)
             except tomllib.TOMLDecodeError as error:
                 raise ConfigError(f"{candidate}: invalid TOML: {error}") from None
             if isinstance(data.get("tool"), dict) and "dimcheck" in data["tool"]:

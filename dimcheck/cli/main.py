@@ -21,7 +21,36 @@ from . import serve_command
 EXIT_CLEAN, EXIT_FINDINGS, EXIT_TROUBLE = 0, 1, 2
 
 
+class _HelpFormatter(argparse.HelpFormatter):
+    """argparse's formatter, given the terminal's width: left to find it, argparse imports
+    shutil (and the compression modules with it) on every run, help shown or not."""
+
+    def __init__(self, prog: str, indent_increment: int = 2, max_help_position: int = 24,
+                 width: int | None = None):
+        super().__init__(prog, indent_increment, max_help_position,
+                         width if width is not None else _terminal_columns() - 2)
+
+
+def _terminal_columns() -> int:
+    """What ``shutil.get_terminal_size().columns`` gives: $COLUMNS, else the width of the
+    terminal on standard output, else 80."""
+    try:
+        columns = int(os.environ.get("COLUMNS", 0))
+    except ValueError:
+        columns = 0
+    if columns <= 0:
+        try:
+            columns = os.get_terminal_size(sys.__stdout__.fileno()).columns
+        except (AttributeError, ValueError, OSError):
+            columns = 0
+    return columns if columns > 0 else 80
+
+
 class _Parser(argparse.ArgumentParser):
+    def __init__(self, *args, **kwargs):
+        kwargs.setdefault("formatter_class", _HelpFormatter)
+        super().__init__(*args, **kwargs)
+
     def error(self, message: str):  # one line, exit 2, instead of argparse's usage block
         raise UsageError(message)
 

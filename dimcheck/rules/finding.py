@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import os
-from typing import NamedTuple
+from collections import namedtuple
 
 from .registry import RULES
 
@@ -16,15 +16,13 @@ def display_path(path: str) -> str:
         return path
 
 
-class Finding(NamedTuple):
-    path: str
-    line: int
-    column: int  # 1-based
-    end_line: int
-    end_column: int  # 1-based, exclusive
-    code: str
-    message: str
-    cell: int | None = None  # 1-based notebook cell, when the file is a notebook
+class Finding(namedtuple("Finding", "path line column end_line end_column code message cell",
+                         defaults=(None,))):
+    """One finding: the file, 1-based line and column where it starts, the line and the
+    1-based column where it ends (exclusive), the rule code, the message, and the 1-based
+    notebook cell when the file is a notebook (else None). See the note in registry.py."""
+
+    __slots__ = ()
 
     @property
     def name(self) -> str:

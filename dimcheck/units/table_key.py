@@ -9,7 +9,7 @@ except ImportError:  # pragma: no cover - a Python built without it
     from hashlib import blake2b
 import os
 from pathlib import Path
-from typing import Sequence
+from collections.abc import Sequence
 
 from .errors import UnitError
 
