@@ -145,14 +145,15 @@ def test_files_stable_since_the_last_run_are_not_read_again(tree, monkeypatch):
 
 
 def test_a_run_answered_from_the_cache_stays_light(tree):
-    # Nothing to check: no unit table, inference, parser, dataclasses or fractions loaded.
+    # Nothing to check: no unit table, inference, unit parser, nor the stdlib modules
+    # that only a real check (or a configuration file) needs.
     check(tree)
     script = ("import sys\n"
               "before = set(sys.modules)  # what the interpreter's own start-up loaded\n"
               "from dimcheck.cli.main import main\n"
               "code = main(['check', '.', '--format', 'json', '--jobs', '1'])\n"
               "heavy = ['dimcheck.inference.engine', 'dimcheck.units.table', 'dimcheck.units.expression',\n"
-              "         'dataclasses', 'fractions']\n"
+              "         'dataclasses', 'fractions', 'typing', 'shutil', 'tomllib']\n"
               "print('EXIT', code, 'LOADED', [name for name in heavy if name in set(sys.modules) - before])\n")
     result = subprocess.run([sys.executable, "-c", script], cwd=tree, capture_output=True, text=True, timeout=120)
     assert "Traceback" not in result.stderr, result.stderr
