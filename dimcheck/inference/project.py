@@ -130,7 +130,7 @@ def parse_notebook(notebook, path: str) -> ast.Module:
         raise error
 
 
-def module_name_for(path: Path | str) -> tuple[str, Path, bool]:
+def module_name_for(path: str) -> tuple[str, Path, bool]:
     """The dotted module name of a file, the folder imports are relative to, and is-package."""
     folder, filename = os.path.split(_resolved(str(path)))
     stem = os.path.splitext(filename)[0]
@@ -263,7 +263,7 @@ class Project:
             loaded = LoadedModule(None, error, text, notebook)
             self._by_path[key] = loaded
             return loaded
-        name, root, is_package = module_name_for(Path(path))
+        name, root, is_package = module_name_for(path)
         if root not in self._roots:
             self._roots.append(root)
         symbols = ModuleSymbols(path, name, tree, text, trailing_comment_units(text), is_package=is_package,
@@ -335,7 +335,7 @@ class Project:
                 scopes.append(full)
                 continue
             try:
-                name, root, _ = module_name_for(Path(full))
+                name, root, _ = module_name_for(full)
             except (OSError, RuntimeError):  # a symbolic-link loop: reported as DIM902 later
                 scopes.append(os.path.dirname(full))
                 continue

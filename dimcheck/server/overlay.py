@@ -10,7 +10,6 @@ so after an edit only the edited document is parsed again, and the stubs are rea
 from __future__ import annotations
 
 import os
-from pathlib import Path
 
 from ..declarations.comments import CommentUnit, trailing_comment_units
 from ..declarations.symbols import ModuleSymbols, collect_symbols
@@ -85,7 +84,7 @@ class SourceStore:
             tree = parse_source(text, path)
         except UnreadableFile as error:
             return _Parsed(signature, text, LoadedModule(None, error, text), None, None)
-        name, root, is_package = module_name_for(Path(path))
+        name, root, is_package = module_name_for(path)
         comments = self._comment_units(text, tree) if signature and signature[0] == "open" \
             else trailing_comment_units(text)
         symbols = ModuleSymbols(path, name, tree, text, comments, is_package=is_package, options=options)
