@@ -163,9 +163,10 @@ def check_argument(param: str, function: str, declared: Quantity, value,
                                      f"got {described(value)}; form a dimensionless ratio first")
         return Problem("DIM104", f"argument '{param}' of {function}() expects {described(declared)} "
                                  f"but got {described(value)}{_missing_factor(value, declared)}")
-    offset = check_offset_binding(f"argument '{param}' of {function}()", declared, value)
-    if offset is not None:
-        return offset
+    if value.offset != declared.offset:  # (the message is only built when it may be needed)
+        offset = check_offset_binding(f"argument '{param}' of {function}()", declared, value)
+        if offset is not None:
+            return offset
     if value.pint or quantities_share_scale(value, declared):
         return None
     if _is_degree_to_radian(value, declared):
