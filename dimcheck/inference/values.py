@@ -44,9 +44,10 @@ UNKNOWN = Unknown()
 RECURSION = Unknown()
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(slots=True, eq=False)
 class Origin:
-    """Where a unit came from: file, line and the kind of declaration."""
+    """Where a unit came from: file, line and the kind of declaration (one per declared
+    unit; not frozen, see UnitText)."""
 
     path: str
     line: int
