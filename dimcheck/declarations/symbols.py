@@ -23,7 +23,8 @@ UnitSpec = UnitText | AliasRef | None
 def _position(node) -> tuple[int, int, int, int]:
     """(line, column) where a definition stands, then its first line (decorators included)
     and its last: what is known of it while its module's tree is released."""
-    first = min([node.lineno, *(item.lineno for item in getattr(node, "decorator_list", ()))])
+    decorators = getattr(node, "decorator_list", None)
+    first = min(node.lineno, *(item.lineno for item in decorators)) if decorators else node.lineno
     return node.lineno, node.col_offset, first, getattr(node, "end_lineno", None) or node.lineno
 
 

@@ -355,8 +355,9 @@ class Engine:
         """What each parameter declares (a Quantity, a GenericUnit or None), resolved once."""
         found = self._parameter_declarations.get(function)
         if found is None:
+            module, declared = function.module, self.declared
             found = self._parameter_declarations[function] = tuple(
-                self.declared(function.module, param.spec) for param in function.params)
+                [declared(module, param.spec) for param in function.params])
         return found
 
     def _undeclared_parameter(self, function: FunctionInfo, index: int, param: ParamInfo) -> Any:
