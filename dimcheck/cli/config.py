@@ -72,8 +72,9 @@ _KNOWN_KEYS = set(_LIST_OF_STRINGS) | {"fail-on", "docstring-units", "suffix-uni
 _IDENTIFIER = re.compile(r"^[A-Za-z_][A-Za-z0-9_]*$")
 
 
-def find_config(start: Path) -> Path | None:
-    """The nearest pyproject.toml with a ``[tool.dimcheck]`` table, from ``start`` upwards."""
+def find_config(start: Path) -> tuple[Path, dict] | None:
+    """The nearest pyproject.toml with a ``[tool.dimcheck]`` table, from ``start`` upwards,
+    and its parsed contents (so that it is read once)."""
     for folder in [start, *start.parents]:
         candidate = folder / "pyproject.toml"
         if candidate.is_file():
@@ -89,28 +90,29 @@ def find_config(start: Path) -> Path | None:
             except tomllib.TOMLDecodeError as error:
                 raise ConfigError(f"{candidate}: invalid TOML: {error}") from None
             if isinstance(data.get("tool"), dict) and "dimcheck" in data["tool"]:
-                return candidate
+                return candidate, data
     return None
 
 
 def load_config(explicit: str | None = None, start: Path | None = None) -> Config:
-    if explicit is not None:
+    if explicit is None:
+        found = find_config(start or Path.cwd())
+        if found is None:
+            return Config()
+        path, data = found
+    else:
         path = Path(explicit)
         if not path.is_file():
             raise ConfigError(f"{explicit}: configuration file not found")
-    else:
-        path = find_config(start or Path.cwd())
-        if path is None:
-            return Config()
-    tomllib = _toml()
-    try:
-        data = tomllib.loads(path.read_text(encoding="utf-8"))
-    except UnicodeDecodeError:
-        raise ConfigError(f"{path}: not valid UTF-8") from None
-    except OSError as error:
-        raise ConfigError(f"{path}: cannot read: {error.strerror or error}") from None
-    except tomllib.TOMLDecodeError as error:
-        raise ConfigError(f"{path}: invalid TOML: {error}") from None
+        tomllib = _toml()
+        try:
+            data = tomllib.loads(path.read_text(encoding="utf-8"))
+        except UnicodeDecodeError:
+            raise ConfigError(f"{path}: not valid UTF-8") from None
+        except OSError as error:
+            raise ConfigError(f"{path}: cannot read: {error.strerror or error}") from None
+        except tomllib.TOMLDecodeError as error:
+            raise ConfigError(f"{path}: invalid TOML: {error}") from None
     tool = data.get("tool")
     if isinstance(tool, dict) and "dimcheck" in tool:
         table = tool["dimcheck"]
