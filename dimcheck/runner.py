@@ -277,8 +277,6 @@ def _worker_check(paths: list[str]):
 def validate_name_units(config: Config, table) -> None:
     """A bad unit in the name table is a configuration error (exit 2) rather than a
     finding on every name it would match."""
-    if not config.name_units:
-        return
     from .units import parse_unit
 
     for pattern, unit in config.name_units.items():

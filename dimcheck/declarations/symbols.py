@@ -169,8 +169,8 @@ class ModuleSymbols:
     # a docstring or a name pattern declares something here (the fast path must not skip it)
     declares_from_text: bool = False
     # names of its functions, classes and imports that something else binds too (usually
-    # none): see bound_only_by_definition and bound_only_by_import
-    bound_again: frozenset[str] | None = None
+    # none; set by collect_symbols): see bound_only_by_definition and bound_only_by_import
+    bound_again: frozenset[str] = frozenset()
     # called with the module after ``restore_tree`` (the project counts resident trees)
     on_restore: object = None
     # reads the source again after a release (None: the source is kept, as for notebooks)
@@ -541,9 +541,10 @@ def read_class(module: ModuleSymbols, node: ast.ClassDef, qualname: str) -> Clas
             spec = read_annotation(stmt.annotation)
             if spec is None:
                 spec = comment_spec(module, stmt.lineno, stmt.end_lineno or stmt.lineno)
-            cls.attributes[stmt.target.id] = (spec, SourceSpan(stmt))
+            span = SourceSpan(stmt)
+            cls.attributes[stmt.target.id] = (spec, span)
             if not _is_classvar(stmt.annotation):
-                cls.fields.append((stmt.target.id, spec, stmt.value, SourceSpan(stmt)))
+                cls.fields.append((stmt.target.id, spec, stmt.value, span))
         elif isinstance(stmt, ast.Assign):
             spec = comment_spec(module, stmt.lineno, stmt.end_lineno or stmt.lineno)
             if spec is not None:
@@ -584,19 +585,13 @@ def _top_level_statements(body):
 def bound_only_by_definition(module: ModuleSymbols, name: str) -> bool:
     """Whether a function or class of the module is bound by its def or class statement
     alone: its value is the definition itself, known without evaluating the module."""
-    return (name in module.functions or name in module.classes) and name not in _bound_again(module)
+    return (name in module.functions or name in module.classes) and name not in module.bound_again
 
 
 def bound_only_by_import(module: ModuleSymbols, name: str) -> bool:
     """Whether one import is all that binds a module-level name (the evaluator then
     resolves it on first use)."""
-    return name in module.imports and name not in _bound_again(module)
-
-
-def _bound_again(module: ModuleSymbols) -> frozenset[str]:
-    if module.bound_again is None:  # found when the module is collected, tree at hand
-        module.bound_again = _names_bound_again(module)
-    return module.bound_again
+    return name in module.imports and name not in module.bound_again
 
 
 def _names_bound_again(module: ModuleSymbols) -> frozenset[str]:

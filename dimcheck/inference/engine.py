@@ -405,8 +405,6 @@ class Engine:
 
     # == calls ===============================================================================
     def call(self, callee: Any, args: list, keywords: dict, node: ast.Call, evaluator: ScopeEvaluator) -> Any:
-        if callee.__class__ is FunctionValue and not is_pint_stub(callee):  # the usual case first
-            return self.call_function(callee, args, keywords, node, evaluator)
         if isinstance(callee, (PintFactoryValue, PintRegistryValue, PintMethodValue)) or is_pint_stub(callee):
             return self.pint.call(callee, args, keywords, node, evaluator)
         if isinstance(callee, FunctionValue):

@@ -196,7 +196,7 @@ class ScopeEvaluator:
             self._block_depth -= 1
 
     def statement(self, node: ast.stmt) -> None:
-        handler = _STATEMENT_HANDLERS.get(node.__class__) or _handler(_STATEMENT_HANDLERS, "_stmt_", node.__class__)
+        handler = _STATEMENT_HANDLERS.get(node.__class__)
         if handler is not None:
             handler(self, node)
         else:
@@ -496,8 +496,7 @@ class ScopeEvaluator:
             return UNKNOWN
         engine.depth += 1
         try:
-            handler = (_EXPRESSION_HANDLERS.get(node.__class__)
-                       or _handler(_EXPRESSION_HANDLERS, "_expr_", node.__class__))
+            handler = _EXPRESSION_HANDLERS.get(node.__class__)
             if handler is None:
                 self._visit_children(node)
                 value = UNKNOWN
@@ -821,15 +820,12 @@ def choose(a: Any, b: Any) -> Any:
     return merge_values(a, b)
 
 
+# The method for each node type, looked up once rather than by name per node: None for a
+# type without one (its children are visited), and for anything that is no Python node.
+def _handlers(base: type, prefix: str) -> dict[type, object]:
+    return {node_type: getattr(ScopeEvaluator, prefix + node_type.__name__, None)
+            for node_type in base.__subclasses__()}
 
-# The method for each node type, looked up once per type rather than by name per node.
-_STATEMENT_HANDLERS: dict[type, object] = {}
-_EXPRESSION_HANDLERS: dict[type, object] = {}
 
-
-def _handler(table: dict[type, object], prefix: str, node_type: type):
-    try:
-        return table[node_type]
-    except KeyError:
-        found = table[node_type] = getattr(ScopeEvaluator, prefix + node_type.__name__, None)
-        return found
+_STATEMENT_HANDLERS = _handlers(ast.stmt, "_stmt_")
+_EXPRESSION_HANDLERS = _handlers(ast.expr, "_expr_")

@@ -594,7 +594,7 @@ def _read_again(path: str) -> str:
         return ""
 
 
-@lru_cache(maxsize=100_000)  # every module of a package makes the same relative imports
+@lru_cache(maxsize=100_000)  # a module resolves the same relative import for each name it takes
 def _relative_import_target(importer: str, is_package: bool, name: str, level: int) -> str:
     package = importer.split(".") if is_package else importer.split(".")[:-1]
     if level > 1:
