@@ -1,9 +1,11 @@
 """The unit table: every unit pint knows, flattened to (dimension, scale, offset).
 
-Building the table needs pint and takes about a second, so the result is kept
+Building the table needs pint and takes about half a second, so the result is kept
 as a compact JSON file in the user cache directory. A warm run reads that file
 and never imports pint; the cache file name is a hash of everything the table
 depends on (see table_key.py), so a new pint or edited definitions rebuild it.
+The table of pint's default registry also ships with dimcheck (``default_table.json``),
+so that a first run in a fresh environment, such as a CI container, builds nothing.
 
 Name resolution copies pint's ``parse_unit_name``: exact name, else every
 (prefix, suffix) split whose middle is a unit, duplicates like kilo+gram versus
@@ -174,6 +176,12 @@ class UnitTable:
 
 _MEMO: dict[str, UnitTable] = {}
 
+# pint's default registry as a table, built by the pint release its key names and shipped
+# in the package (``PYTHONHASHSEED=0 python -m dimcheck.units.table``
+# writes it again; the seed keeps the order of its rows from changing). It serves every run
+# whose configuration adds no units, while the installed pint is that release.
+SHIPPED_DEFAULT_TABLE = Path(__file__).with_name("default_table.json")
+
 
 def load_unit_table(
     definition_files: Sequence[str | Path] = (),
@@ -197,12 +205,15 @@ def load_unit_table(
     table = _MEMO.get(key)
     if table is not None:
         return table
-    directory = cache_dir if cache_dir is not None else default_cache_dir()
-    cache_file = directory / f"units-{key[:32]}.json"
-    table = _read_cache(cache_file, key)
+    if not contents and not extras:
+        table = _read_cache(SHIPPED_DEFAULT_TABLE, key)
     if table is None:
-        table = _build_table(key, paths, extras)
-        _write_cache(cache_file, table)
+        directory = cache_dir if cache_dir is not None else default_cache_dir()
+        cache_file = directory / f"units-{key[:32]}.json"
+        table = _read_cache(cache_file, key)
+        if table is None:
+            table = _build_table(key, paths, extras)
+            _write_cache(cache_file, table)
     _MEMO[key] = table
     return table
 
@@ -228,7 +239,7 @@ def _read_cache(cache_file: Path, key: str) -> UnitTable | None:
     return table if table.key == key else None
 
 
-def _write_cache(cache_file: Path, table: UnitTable) -> None:
+def _write_cache(cache_file: Path, table: UnitTable) -> bool:
     """Write atomically (temp file + rename); an unwritable cache just means no cache."""
     import tempfile  # only on a cache miss
 
@@ -241,12 +252,14 @@ def _write_cache(cache_file: Path, table: UnitTable) -> None:
             temp_name = handle.name
             json.dump(table.to_json(), handle, separators=(",", ":"), ensure_ascii=False)
         os.replace(temp_name, cache_file)
+        return True
     except OSError:
         if temp_name is not None:
             try:
                 os.unlink(temp_name)
             except OSError:
                 pass
+        return False
 
 
 # -- building from pint (cache miss only) ----------------------------------------------
@@ -347,3 +360,17 @@ def _definition_row(registry, definition, intern) -> list:
 def _one_line(error: Exception) -> str:
     text = " ".join(str(error).split())
     return text[:200] or type(error).__name__
+
+
+def write_shipped_default_table() -> Path:
+    """Build pint's default registry with the installed pint and write it where the
+    package ships it (run after updating pint or changing the table's format)."""
+    key = table_key([], [])
+    if not _write_cache(SHIPPED_DEFAULT_TABLE, _build_table(key, [], [])):
+        raise UnitError(f"cannot write {SHIPPED_DEFAULT_TABLE}")
+    os.chmod(SHIPPED_DEFAULT_TABLE, 0o644)  # package data, readable by all (the cache's are private)
+    return SHIPPED_DEFAULT_TABLE
+
+
+if __name__ == "__main__":  # python -m dimcheck.units.table
+    print(f"wrote {write_shipped_default_table()}")
