@@ -79,7 +79,6 @@ class Checker:
         if self.config.name_units:
             validate_name_units(self.config, self.table)
         self._options = None
-        self.scope: list[str] | None = None  # the paths given: modules outside are not read
 
     @property
     def table(self):
@@ -123,12 +122,9 @@ class Checker:
     def new_project(self) -> Project:
         from .inference.project import Project
 
-        project = Project(self.config.stubs, self.options)
-        if self.scope:
-            project.limit_to(self.scope)
-        return project
+        return Project(self.config.stubs, self.options, project_dir=self.config.base_dir)
 
-    def check_files(self, files: list[str], jobs: int = 1, scope: list[str] | None = None) -> list[Finding]:
+    def check_files(self, files: list[str], jobs: int = 1) -> list[Finding]:
         """Findings of the files, sorted. Files whose cached result still holds are not read;
         the rest are checked here or, with ``jobs`` > 1 and enough of them, in worker
         processes (each with its own view of the project), with the same result."""
@@ -142,7 +138,6 @@ class Checker:
             else:
                 raw_by_path[path] = cached
         dependencies: dict[str, set[str]] = {}
-        self.scope = scope
         if pending and self._table is None:
             self._load_table()  # a bad unit definition file stops the run here, before any worker
         for path, raw in self._compute(pending, jobs, dependencies):
@@ -167,7 +162,7 @@ class Checker:
 
         context = multiprocessing.get_context("fork" if "fork" in multiprocessing.get_all_start_methods()
                                               else "spawn")
-        with context.Pool(len(chunks), initializer=_worker_start, initargs=(self.config, self.scope)) as pool:
+        with context.Pool(len(chunks), initializer=_worker_start, initargs=(self.config,)) as pool:
             results = []
             for chunk_results, chunk_dependencies in pool.imap(_worker_check, chunks):
                 results.extend(chunk_results)
@@ -263,10 +258,9 @@ def split_work(paths: list[str], jobs: int) -> list[list[str]]:
 _WORKER: "Checker | None" = None
 
 
-def _worker_start(config: Config, scope) -> None:
+def _worker_start(config: Config) -> None:
     global _WORKER
     _WORKER = Checker(config)
-    _WORKER.scope = scope
 
 
 def _worker_check(paths: list[str]):
@@ -311,4 +305,4 @@ def check_paths(paths: list[str], config: Config | None = None, select: list[str
     config = config or Config()
     files, errors = discover(paths, config.exclude, config.exclude_base)
     checker = Checker(config, select, ignore, use_cache=use_cache)
-    return Report(len(files), checker.check_files(files, jobs, scope=paths), errors)
+    return Report(len(files), checker.check_files(files, jobs), errors)

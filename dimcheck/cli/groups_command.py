@@ -148,7 +148,7 @@ def _function_variables(target: str, config, table, skip_undeclared: bool):
     from ..units import UnitError, parse_unit
 
     path, qualname = _split_target(target)
-    project = Project(config.stubs)
+    project = Project(config.stubs, project_dir=config.base_dir)
     loaded = project.load(path)
     if loaded.symbols is None:
         error = loaded.error

@@ -185,7 +185,10 @@ class Engine:
         return UNKNOWN
 
     # == attributes ========================================================================
-    def attribute_value(self, owner: Any, attr: str, evaluator: ScopeEvaluator) -> Any:
+    def attribute_value(self, owner: Any, attr: str, evaluator: ScopeEvaluator | None,
+                        requester: ModuleSymbols | None = None) -> Any:
+        """``owner.attr``; ``requester`` is the module asking when no evaluator is (a
+        module's names are found as that module imports them)."""
         if owner.__class__ is InstanceValue or owner.__class__ is ClassValue:  # the usual case first
             found = self._class_member(owner.info, attr, 0)
             if found is None:
@@ -205,7 +208,7 @@ class Engine:
         if isinstance(owner, PintRegistryValue) or (isinstance(owner, Quantity) and owner.pint):
             return self.pint.attribute(owner, attr, evaluator.module if evaluator is not None else None)
         if isinstance(owner, ModuleValue):
-            requester = evaluator.module if evaluator is not None else None
+            requester = evaluator.module if evaluator is not None else requester
             target = self.project.find_from(requester, owner.name)
             if target is not None and self._defines(target, attr):
                 return self.module_name_value(target, attr)
@@ -543,7 +546,7 @@ class Engine:
         for attr in name[1:]:
             if not isinstance(value, ModuleValue):
                 return UNKNOWN
-            value = self.attribute_value(value, attr, None)
+            value = self.attribute_value(value, attr, None, module)
         return InstanceValue(value.info) if isinstance(value, ClassValue) else UNKNOWN
 
     def _pint_decorated_arguments(self, function: FunctionInfo, bound: dict, evaluator) -> None:

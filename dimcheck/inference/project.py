@@ -187,15 +187,28 @@ class LoadedModule:
         return self.symbols.source if self.symbols is not None else self._text
 
 
+# Folders that hold installed third-party packages: a module found there is read only by
+# modules of its own top-level package, so checking scipy's files never parses numpy.
+_INSTALLED_FOLDERS = frozenset({"site-packages", "dist-packages"})
+
+
 class Project:
-    def __init__(self, stub_dirs: list[Path] | tuple = (), options: DeclarationOptions | None = None):
+    def __init__(self, stub_dirs: list[Path] | tuple = (), options: DeclarationOptions | None = None,
+                 project_dir: str | Path | None = None):
         self.options = options
         # a new view of the disk: packages and links may have changed since
         _package_of.cache_clear()
         _real_folder.cache_clear()
         self._by_path: dict[str, LoadedModule] = {}
-        self._by_name: dict[str, str] = {}
-        self._roots: list[Path] = []
+        # Where an absolute import is searched: the importing file's own root (the folder
+        # above its outermost package), then the project's folder (the configuration's,
+        # else the current one) and its src/. This depends on the importing file alone,
+        # never on which other files a run names, so a cached result stays true.
+        base = os.path.abspath(project_dir if project_dir is not None else os.getcwd())
+        self._project_roots = tuple(dict.fromkeys([base, os.path.join(base, "src")]))
+        self._root_of: dict[str, str] = {}  # module path -> its root
+        self._import_roots: dict[str, tuple[str, ...]] = {}  # root -> the search order from there
+        self._found: dict[tuple[tuple[str, ...], str], str | None] = {}  # (search order, name) -> file
         self._stub_paths: dict[str, Path] = {}
         # user stubs are listed after the shipped ones so that they override them
         for folder in [SHIPPED_STUBS, *stub_dirs]:
@@ -204,8 +217,7 @@ class Project:
         self._tainted: dict[str, bool] = {}
         self._marks: dict[str, bool] = {}
         self._coarse: dict[str, bool] = {}
-        self._scopes: list[str] | None = None  # see limit_to
-        self._candidates: dict[str, list[str]] = {}
+        self._candidates: dict[tuple[tuple[str, ...], str], list[str]] = {}
         self._absolute_paths: dict[str, str] = {}
         self._bodies: dict[tuple[str, str], tuple[bool, frozenset[str]]] = {}  # see _body_summary
         # module path -> paths of the modules it was seen to use: what its result depends on
@@ -268,20 +280,23 @@ class Project:
             self._by_path[key] = loaded
             return loaded
         name, root, is_package = module_name_for(path)
-        if root not in self._roots:
-            self._roots.append(root)
         symbols = ModuleSymbols(path, name, tree, text, trailing_comment_units(text), is_package=is_package,
                                 options=self.options)
         loaded = LoadedModule(collect_symbols(symbols), None, text, notebook)
-        self._by_path[key] = loaded
-        if self._by_name.get(name) is None:
-            self._by_name[name] = key
+        self.register(key, loaded, root)
         if self.max_resident_trees is not None:
             symbols.on_restore = self._admit
             if notebook is None:
                 symbols.read_again = _read_again
             self._admit(symbols)
         return loaded
+
+    def register(self, key: str, loaded: LoadedModule, root) -> None:
+        """Remember a module read from ``key`` (an absolute path), and the root its own
+        absolute imports are searched from first."""
+        self._by_path[key] = loaded
+        if loaded.symbols is not None:
+            self._root_of[loaded.symbols.path] = str(root)
 
     # -- how many syntax trees stay in memory ---------------------------------------------
     def _admit(self, module: ModuleSymbols) -> None:
@@ -303,63 +318,65 @@ class Project:
         """``with project.pinned(module):`` keeps its tree while nodes of it are in use."""
         return _Pin(self._pins, module.path)
 
-    def find_module(self, name: str) -> ModuleSymbols | None:
-        """A module by dotted name: a stub, a module already read, or a file under a root."""
+    def find_module(self, name: str, requester: ModuleSymbols | None = None) -> ModuleSymbols | None:
+        """A module by dotted name, as ``requester`` imports it: a stub, else the first file
+        of that name along the requester's import roots (see ``import_roots``)."""
         if not name:
             return None
         stub = self.stub_module(name)
         if stub is not None:
             return stub
-        if name in self._by_name:
-            key = self._by_name[name]
-            if key is None:
-                return None
-            symbols = self._by_path[key].symbols
-            if symbols is not None and symbols.path in self._resident:
-                self._resident.move_to_end(symbols.path)
-            return symbols
-        relative = Path(*name.split("."))
-        for root in list(self._roots):
-            for candidate in (root / relative.with_suffix(".py"), root / relative / "__init__.py"):
-                if candidate.is_file() and self._within_scope(str(candidate)):
-                    loaded = self.load(str(candidate))
-                    self._by_name[name] = os.path.abspath(candidate)
-                    return loaded.symbols
-        self._by_name[name] = None  # remember the miss
-        return None
+        path = self._file_of(name, requester)
+        if path is None:
+            return None
+        loaded = self._by_path.get(path)
+        if loaded is None:
+            loaded = self.load(path)
+        symbols = loaded.symbols
+        if symbols is not None and symbols.path in self._resident:
+            self._resident.move_to_end(symbols.path)
+        return symbols
 
-    def limit_to(self, paths: list[str]) -> None:
-        """Read only modules of the checked code: below the folders given, or in the package
-        of a file given. Installed third-party packages beside them stay unread (unknown),
-        which keeps a check of one package from parsing everything it imports."""
-        scopes = []
-        for given in paths:
-            full = os.path.abspath(given)
-            if os.path.isdir(full):
-                scopes.append(full)
-                continue
-            try:
-                name, root, _ = module_name_for(full)
-            except (OSError, RuntimeError):  # a symbolic-link loop: reported as DIM902 later
-                scopes.append(os.path.dirname(full))
-                continue
-            top = name.split(".")[0] if "." in name or os.path.basename(full) == "__init__.py" else ""
-            scopes.append(os.path.join(str(root), top) if top else os.path.dirname(full))
-        # Many files of one package share a scope (a pre-commit hook passes each file):
-        # keep each folder once, and none that lies inside another.
-        unique = sorted({scope.rstrip(os.sep) + os.sep for scope in scopes})
-        self._scopes = [scope for index, scope in enumerate(unique)
-                        if not any(scope.startswith(outer) for outer in unique[:index])]
+    def import_roots(self, requester: ModuleSymbols | None) -> tuple[str, ...]:
+        """The folders an absolute import of ``requester`` is searched in, in order."""
+        own = self._root_of.get(requester.path) if requester is not None else None
+        if own is None:
+            return self._project_roots
+        roots = self._import_roots.get(own)
+        if roots is None:
+            roots = self._import_roots[own] = tuple(dict.fromkeys([own, *self._project_roots]))
+        return roots
 
-    def _within_scope(self, path: str) -> bool:
-        if self._scopes is None:
+    def _file_of(self, name: str, requester: ModuleSymbols | None) -> str | None:
+        """The file ``requester`` would import as ``name``, if dimcheck may read it. As
+        Python does, the first file found decides, even when it may not be read."""
+        roots = self.import_roots(requester)
+        key = (roots, name)
+        if key in self._found:
+            found = self._found[key]
+        else:
+            found = self._found[key] = next(
+                (path for path in self.candidate_paths(name, roots) if os.path.isfile(path)), None)
+        if found is None or not self._may_read(requester, found):
+            return None
+        return found
+
+    def _may_read(self, requester: ModuleSymbols | None, path: str) -> bool:
+        """Installed third-party packages stay unread (unknown), except a package's own
+        modules: checking one package does not parse everything it imports."""
+        if _INSTALLED_FOLDERS.isdisjoint(path.split(os.sep)):
             return True
-        full = os.path.abspath(path)
-        return any(full.startswith(scope) for scope in self._scopes)
+        own = self._root_of.get(requester.path) if requester is not None else None
+        if own is None:
+            return False
+        top = os.path.join(own, requester.name.split(".")[0])
+        return path.startswith(top + os.sep) or path == top + ".py"
 
     def find_from(self, requester: ModuleSymbols | None, name: str) -> ModuleSymbols | None:
-        """``find_module`` on behalf of a module, remembering that it depends on the result."""
-        target = self.find_module(name)
+        """``find_module`` on behalf of a module, remembering that it depends on the result:
+        the file found, and every place searched before it (a file appearing there would be
+        imported instead)."""
+        target = self.find_module(name, requester)
         if requester is not None:
             user = self._absolute(requester.path)
             used = self.dependencies.get(user)
@@ -367,8 +384,12 @@ class Project:
                 used = self.dependencies[user] = set()
             if target is not None:
                 used.add(self._absolute(target.path))
-            elif not self.has_stub(name):  # a file appearing there changes things
-                used.update(path for path in self.candidate_paths(name) if self._within_scope(path))
+            if not self.has_stub(name):
+                found = self._found.get((self.import_roots(requester), name))
+                for path in self.candidate_paths(name, self.import_roots(requester)):
+                    used.add(path)
+                    if path == found:
+                        break
         return target
 
     def _absolute(self, path: str) -> str:
@@ -377,14 +398,16 @@ class Project:
             found = self._absolute_paths[path] = os.path.abspath(path)
         return found
 
-    def candidate_paths(self, name: str) -> list[str]:
-        key = f"{name}|{len(self._roots)}"
+    def candidate_paths(self, name: str, roots: tuple[str, ...]) -> list[str]:
+        """The files a module name may be, in the order Python looks: root by root, a
+        package before a module of the same name."""
+        key = (roots, name)
         found = self._candidates.get(key)
         if found is None:
             relative = os.path.join(*name.split("."))
-            found = [os.path.join(str(root), relative + ".py") for root in self._roots] + \
-                    [os.path.join(str(root), relative, "__init__.py") for root in self._roots]
-            self._candidates[key] = found
+            found = self._candidates[key] = [
+                path for root in roots
+                for path in (os.path.join(root, relative, "__init__.py"), os.path.join(root, relative + ".py"))]
         return found
 
 

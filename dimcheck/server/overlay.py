@@ -20,14 +20,13 @@ from ..inference.project import (LoadedModule, Project, UnreadableFile, module_n
 class _Parsed:
     """A module parsed once, with what its text or file looked like at the time."""
 
-    __slots__ = ("signature", "text", "loaded", "name", "root")
+    __slots__ = ("signature", "text", "loaded", "root")
 
-    def __init__(self, signature, text, loaded, name, root):
+    def __init__(self, signature, text, loaded, root):
         self.signature = signature
         self.text = text
         self.loaded = loaded
-        self.name = name
-        self.root = root
+        self.root = root  # where the module's own absolute imports are searched first
 
 
 class SourceStore:
@@ -83,12 +82,12 @@ class SourceStore:
                 text = text[1:]
             tree = parse_source(text, path)
         except UnreadableFile as error:
-            return _Parsed(signature, text, LoadedModule(None, error, text), None, None)
+            return _Parsed(signature, text, LoadedModule(None, error, text), None)
         name, root, is_package = module_name_for(path)
         comments = self._comment_units(text, tree) if signature and signature[0] == "open" \
             else trailing_comment_units(text)
         symbols = ModuleSymbols(path, name, tree, text, comments, is_package=is_package, options=options)
-        return _Parsed(signature, text, LoadedModule(collect_symbols(symbols), None, text), name, root)
+        return _Parsed(signature, text, LoadedModule(collect_symbols(symbols), None, text), root)
 
 
     def _comment_units(self, text: str, tree) -> dict[int, CommentUnit]:
@@ -129,8 +128,8 @@ class OverlayProject(Project):
     one state of the text. The expensive parts, parsed modules and stubs, live in the store.
     """
 
-    def __init__(self, stub_dirs, store: SourceStore, options=None):
-        super().__init__(stub_dirs, options)
+    def __init__(self, stub_dirs, store: SourceStore, options=None, project_dir=None):
+        super().__init__(stub_dirs, options, project_dir)
         self._store = store
         self._shared_stubs = store.stub_cache(stub_dirs)
 
@@ -148,12 +147,5 @@ class OverlayProject(Project):
         if loaded is not None:
             return loaded
         parsed = self._store.module(key, self.options)
-        loaded = parsed.loaded
-        self._by_path[key] = loaded
-        if loaded.symbols is not None:
-            # the bookkeeping of Project.load: where imports are searched, and by which name
-            if parsed.root not in self._roots:
-                self._roots.append(parsed.root)
-            if self._by_name.get(parsed.name) is None:
-                self._by_name[parsed.name] = key
-        return loaded
+        self.register(key, parsed.loaded, parsed.root)
+        return parsed.loaded

@@ -117,7 +117,7 @@ class Session:
         checker = self.checker_for(path)
         if self.excluded(path, checker.config):
             return []
-        project = OverlayProject(checker.config.stubs, self.store, checker.options)
+        project = OverlayProject(checker.config.stubs, self.store, checker.options, checker.config.base_dir)
         engine = Engine(project, checker.table)
         with _deep_code():
             loaded = project.load(path)
@@ -157,7 +157,7 @@ class Session:
         """The unit of the innermost expression at a 0-based line and string index."""
         path = os.path.abspath(path)
         checker = self.checker_for(path)
-        project = OverlayProject(checker.config.stubs, self.store, checker.options)
+        project = OverlayProject(checker.config.stubs, self.store, checker.options, checker.config.base_dir)
         with _deep_code():
             loaded = project.load(path)
             if loaded.symbols is None:
