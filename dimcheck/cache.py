@@ -135,6 +135,19 @@ class ResultCache:
                 if target not in self.modules and self.hash_of(target) != ABSENT:
                     self.modules[target] = self._entry(target, dependencies.get(target, ()))
 
+    def _make_folder(self) -> None:
+        """The cache folder, created with a ``.gitignore`` of ``*``: it sits in the user's
+        repository, and a ``git add .`` must never stage it (a pre-commit hook would then
+        see its own cache as a modified file)."""
+        folder = self.path.parent
+        if folder.is_dir():
+            return
+        folder.mkdir(parents=True, exist_ok=True)
+        try:
+            (folder / ".gitignore").write_text("# written by dimcheck: its result cache\n*\n", encoding="utf-8")
+        except OSError:
+            pass  # the cache still works; only the ignore file is missing
+
     def save(self) -> None:
         if not self._dirty:
             return
@@ -144,7 +157,7 @@ class ResultCache:
 
         temporary = None
         try:
-            self.path.parent.mkdir(parents=True, exist_ok=True)
+            self._make_folder()
             handle, temporary = tempfile.mkstemp(dir=self.path.parent, prefix=".results-", suffix=".tmp")
             with os.fdopen(handle, "w", encoding="utf-8") as stream:
                 json.dump(data, stream, separators=(",", ":"))

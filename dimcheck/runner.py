@@ -97,7 +97,8 @@ class Checker:
         try:
             yield
         except UnitError as error:  # a definition file missing, or one pint cannot read
-            where = f"{self.config.source}: [tool.dimcheck] units" if self.config.source else "units"
+            setting = error.setting  # units or base-dimensions
+            where = f"{self.config.source}: [tool.dimcheck] {setting}" if self.config.source else setting
             raise ConfigError(f"{where}: {error}") from None
 
     @property

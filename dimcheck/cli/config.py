@@ -122,7 +122,7 @@ def load_config(explicit: str | None = None, start: Path | None = None) -> Confi
         table = data  # a standalone file holds the keys at its top level
     if not isinstance(table, dict):
         raise ConfigError(f"{path}: [tool.dimcheck] must be a table")
-    return validate(table, path)
+    return validate(table, path, "the file's top level" if table is data else "[tool.dimcheck]")
 
 
 def _where(path: Path, key: str) -> str:
@@ -141,13 +141,14 @@ def parse_codes(values: list[str], where: str) -> list[str]:
     return codes
 
 
-def validate(table: dict, path: Path) -> Config:
+def validate(table: dict, path: Path, where_keys: str = "[tool.dimcheck]") -> Config:
+    """The settings of ``table`` (found in ``path``, at ``where_keys``), checked."""
     config = Config(source=path)
     base = path.parent
     for key, value in table.items():
         if key not in _KNOWN_KEYS:
             known = ", ".join(sorted(_KNOWN_KEYS))
-            raise ConfigError(f"{path}: unknown key {key!r} in [tool.dimcheck] (known keys: {known})")
+            raise ConfigError(f"{path}: unknown key {key!r} in {where_keys} (known keys: {known})")
         where = _where(path, key)
         if key in _LIST_OF_STRINGS:
             if isinstance(value, str):

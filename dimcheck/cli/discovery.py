@@ -12,6 +12,8 @@ SKIPPED_FOLDERS = frozenset({
     "__pycache__", ".tox", ".nox", ".mypy_cache", ".pytest_cache", ".ruff_cache", ".hypothesis",
     "build", "dist", "node_modules", "site-packages", ".eggs", ".ipynb_checkpoints",
 })
+# The file at the top of every virtual environment (PEP 405), whatever its folder is called.
+VIRTUAL_ENV_MARKER = "pyvenv.cfg"
 
 
 def _forms(path: str, base: str | None) -> list[str]:
@@ -62,6 +64,9 @@ def discover(paths: list[str], exclude: list[str], base: str | None = None) -> t
     for given in paths:
         if os.path.isdir(given):
             for folder, subfolders, names in os.walk(given, followlinks=False):
+                if VIRTUAL_ENV_MARKER in names and folder != given:
+                    subfolders[:] = []  # a virtual environment under any name (named itself, it is walked)
+                    continue
                 subfolders[:] = sorted(
                     name for name in subfolders
                     if name not in SKIPPED_FOLDERS and not name.endswith(".egg-info")

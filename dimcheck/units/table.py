@@ -21,7 +21,7 @@ from pathlib import Path
 from typing import Sequence
 
 from .dimension import DIMENSIONLESS, Dimension
-from .errors import UnitError
+from .errors import UnitError, base_dimension_error
 from .table_key import TABLE_FORMAT_VERSION, definition_inputs, table_key
 from .unit import Unit
 
@@ -330,9 +330,9 @@ def _define_base_dimension(registry, name: str) -> None:
     if f"[{name}]" in registry._dimensions:
         return
     if not name.isidentifier():
-        raise UnitError(f"base dimension name '{name}' is not a valid name")
+        raise base_dimension_error(f"base dimension name '{name}' is not a valid name")
     if name in registry._units:
-        raise UnitError(f"base dimension '{name}' clashes with the unit '{name}'")
+        raise base_dimension_error(f"base dimension '{name}' clashes with the unit '{name}'")
     registry.define(f"{name} = [{name}]")
 
 

@@ -159,3 +159,16 @@ def test_a_run_answered_from_the_cache_stays_light(tree):
     assert "Traceback" not in result.stderr, result.stderr
     assert '"DIM101"' in result.stdout  # the cached finding is reported
     assert result.stdout.strip().splitlines()[-1] == "EXIT 1 LOADED []"
+
+
+def test_the_cache_folder_ignores_itself_in_git(tree):
+    # a `git add .` after a hook run must not stage the cache (the hook would then fail
+    # with "files were modified by this hook")
+    check(tree)
+    ignore = tree / ".dimcheck_cache" / ".gitignore"
+    assert ignore.read_text().splitlines()[-1] == "*"
+    subprocess.run(["git", "init", "-q", str(tree)], check=True)
+    subprocess.run(["git", "add", "."], cwd=tree, check=True)
+    staged = subprocess.run(["git", "diff", "--cached", "--name-only"], cwd=tree, capture_output=True,
+                            text=True, check=True).stdout.split()
+    assert sorted(staged) == ["units.py", "use.py"]

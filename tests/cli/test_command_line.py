@@ -157,3 +157,18 @@ def test_invalid_toml_is_exit_2(project):
 def test_rules_command_lists_the_registry(project):
     out = run("rules", cwd=project).stdout
     assert all(code in out for code in ("DIM101", "DIM105", "DIM203", "DIM901", "DIM902"))
+
+
+def test_walking_skips_tool_folders_and_virtual_environments_under_any_name(project):
+    for folder in (".git", "venv", "build", "__pycache__", "node_modules", "thing.egg-info"):
+        (project / folder).mkdir()
+        (project / folder / "copy.py").write_text(BUGGY)
+    # a virtual environment is known by its pyvenv.cfg (PEP 405), whatever it is called
+    (project / "py311-tools" / "lib").mkdir(parents=True)
+    (project / "py311-tools" / "pyvenv.cfg").write_text("home = /usr/bin\n")
+    (project / "py311-tools" / "lib" / "copy.py").write_text(BUGGY)
+    result = run("check", ".", "--format", "json", "--no-cache", cwd=project)
+    assert [f["path"] for f in json.loads(result.stdout)["findings"]] == ["pkg/buggy.py"]
+    # named itself, a folder is walked: the user asked for it
+    named = run("check", "py311-tools", "--format", "json", "--no-cache", cwd=project)
+    assert [f["path"] for f in json.loads(named.stdout)["findings"]] == ["py311-tools/lib/copy.py"]

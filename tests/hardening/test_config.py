@@ -170,6 +170,24 @@ def test_standalone_file_with_unknown_key(tmp_path):
     assert_one_line_error(proc, "fail_on", "dimcheck.toml")
 
 
+def test_standalone_file_unknown_key_is_not_said_to_be_in_a_tool_table(tmp_path):
+    (tmp_path / "dimcheck.toml").write_text("[lint]\nstrict = true\n")
+    write_witness(tmp_path)
+    proc = run_cli(["check", "--config", "dimcheck.toml", WITNESS_NAME], cwd=tmp_path)
+    assert proc.returncode == 2
+    line = assert_one_line_error(proc, "'lint'", "top level", "dimcheck.toml")
+    assert "[tool.dimcheck]" not in line
+
+
+@pytest.mark.parametrize("mode", MODES)
+def test_base_dimension_clashing_with_a_unit_names_its_own_key(tmp_path, mode):
+    project = _project(tmp_path, "base-dimensions = [\"m\"]")
+    proc = _run_mode(tmp_path, project, mode)
+    assert proc.returncode == 2
+    line = assert_one_line_error(proc, "base-dimensions", "'m'", "pyproject.toml")
+    assert "] units" not in line
+
+
 def test_config_file_that_does_not_exist(tmp_path):
     write_witness(tmp_path)
     proc = run_cli(["check", "--config", "nowhere.toml", WITNESS_NAME], cwd=tmp_path)
