@@ -8,7 +8,27 @@ from __future__ import annotations
 
 __version__ = "0.1.0"
 
-__all__ = ["__version__", "check_paths", "check_source"]
+__all__ = ["__version__", "Unit", "check_paths", "check_source"]
+
+
+class Unit:
+    """A unit in ``Annotated`` metadata: ``Annotated[float, Unit("m/s")]``, the same as the
+    plain string ``"m/s"``. It only holds the text at run time: dimcheck reads the unit
+    from the source and never imports or runs the code it checks."""
+
+    __slots__ = ("text",)
+
+    def __init__(self, text: str):
+        self.text = text
+
+    def __repr__(self) -> str:
+        return f"Unit({self.text!r})"
+
+    def __eq__(self, other: object) -> bool:
+        return isinstance(other, Unit) and other.text == self.text
+
+    def __hash__(self) -> int:
+        return hash(("dimcheck.Unit", self.text))
 
 
 def check_paths(paths, config=None, select=None, ignore=None):

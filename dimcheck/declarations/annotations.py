@@ -48,6 +48,12 @@ class AliasRef:
     parts: tuple[str, ...]
 
 
+# Types that hold numbers but never a unit: ``x: float = 2.5  # [m]`` is declared by its
+# comment (an alias such as ``Length`` is looked up instead, and wins when it is a unit).
+PLAIN_TYPES = frozenset({"float", "int", "complex", "bool", "Decimal", "Fraction", "ndarray", "NDArray",
+                         "ArrayLike", "float64", "float32", "Any"})
+
+
 def _name_of(node: ast.AST) -> str | None:
     if isinstance(node, ast.Name):
         return node.id
@@ -92,7 +98,7 @@ def read_annotation(node: ast.AST | None, _depth: int = 0) -> UnitText | AliasRe
     if node is None or _depth > 8:
         return None
     if node.__class__ is ast.Name:  # the usual case, ``rho: Density``: read without the search below
-        return _alias_ref((node.id,))
+        return None if node.id in PLAIN_TYPES else _alias_ref((node.id,))
     if isinstance(node, ast.Constant) and isinstance(node.value, str):
         # A string annotation (forward reference): parse it as an expression, never run it.
         if len(node.value) > 2000:
@@ -123,7 +129,7 @@ def read_annotation(node: ast.AST | None, _depth: int = 0) -> UnitText | AliasRe
         return _first_of_union([node.left, node.right], _depth)
     if isinstance(node, (ast.Name, ast.Attribute)):
         parts = dotted_name(node)
-        return _alias_ref(parts) if parts else None
+        return _alias_ref(parts) if parts and parts[-1] not in PLAIN_TYPES else None
     return None
 
 

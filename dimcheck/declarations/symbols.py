@@ -275,8 +275,13 @@ def comment_spec(module: ModuleSymbols, first_line: int, last_line: int) -> Unit
         if found is not None:
             spec = module.comment_specs.get(line)
             if spec is None:
+                column, length = found.column, len(found.text)
+                text = module.line_text(found.line)
+                if not text.isascii():  # positions of declarations count UTF-8 bytes, as the tree does
+                    column = len(text[: column - 1].encode("utf-8")) + 1
+                    length = len(found.text.encode("utf-8"))
                 spec = module.comment_specs[line] = UnitText(
-                    found.text, DeclarationSite(found.line, found.column, len(found.text), "comment"))
+                    found.text, DeclarationSite(found.line, column, length, "comment"))
             return spec
     return None
 
@@ -427,12 +432,21 @@ def _read_pint_decorators(info: FunctionInfo, node) -> None:
             if len(returned) == 1 and returned[0].value is not None and info.return_spec is None:
                 info.return_spec = UnitText(_pint_unit_text(returned[0].value), SourceSpan(returned[0]))
             info.pint_wrapper = "wraps"
+            if _not_strict(decorator):
+                info.decorators = info.decorators | {"<pint-lenient>"}
         elif kind == "check" and decorator.args and all(
                 isinstance(arg, ast.Constant) and (arg.value is None or
                                                    (isinstance(arg.value, str) and arg.value.startswith("[")))
                 for arg in decorator.args):
             _assign_pint_units(info, list(decorator.args), quantity_type=True)
             info.pint_wrapper = "check"
+
+
+def _not_strict(decorator: ast.Call) -> bool:
+    """``@ureg.wraps(ret, args, strict=False)`` (or False as the third argument)."""
+    values = [keyword.value for keyword in decorator.keywords if keyword.arg == "strict"]
+    values += decorator.args[2:3]
+    return any(isinstance(value, ast.Constant) and value.value is False for value in values)
 
 
 def _assign_pint_units(info: FunctionInfo, units: list, quantity_type: bool) -> None:
@@ -714,6 +728,10 @@ def collect_symbols(module: ModuleSymbols) -> ModuleSymbols:
                     if isinstance(target, ast.Name):
                         module.aliases[target.id] = spec
                 continue
+            alias = _alias_of_alias(module, stmt)
+            if alias is not None:
+                module.aliases[stmt.targets[0].id] = alias
+                continue
             spec = comment_spec(module, stmt.lineno, stmt.end_lineno or stmt.lineno)
             if spec is not None:
                 for target in stmt.targets:
@@ -721,6 +739,18 @@ def collect_symbols(module: ModuleSymbols) -> ModuleSymbols:
                         module.globals_declared[target.id] = (spec, SourceSpan(stmt))
     module.bound_again = _names_bound_again(module)
     return module
+
+
+def _alias_of_alias(module: ModuleSymbols, stmt: ast.Assign) -> AliasRef | None:
+    """``Distance = Length`` where Length is an alias defined above or an imported name:
+    Distance may then declare a unit too (resolved, or found to be none, later)."""
+    if len(stmt.targets) != 1 or stmt.targets[0].__class__ is not ast.Name \
+            or stmt.value.__class__ not in (ast.Name, ast.Attribute):
+        return None
+    spec = read_annotation(stmt.value)
+    if spec.__class__ is AliasRef and (spec.parts[0] in module.aliases or spec.parts[0] in module.imports):
+        return spec
+    return None
 
 
 def _number_literal(node: ast.AST) -> float | None:

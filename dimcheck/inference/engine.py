@@ -75,7 +75,17 @@ def merge_returns(values: list[Any]) -> Any:
     result = known[0]
     for value in known[1:]:
         result = merge_values(result, value)
-    return Unknown() if isinstance(result, Bare) else result
+    return _as_returned(result)
+
+
+def _as_returned(value: Any) -> Any:
+    """What a caller gets: a bare number returned without a declaration is unknown to it
+    (contract, section 2), also inside a returned tuple."""
+    if isinstance(value, Bare):
+        return Unknown()
+    if isinstance(value, TupleValue):
+        return TupleValue(tuple(_as_returned(item) for item in value.items))
+    return value
 
 
 class Engine:
@@ -446,7 +456,9 @@ class Engine:
         module = function.module
         special = _SPECIAL_CALLS.get((module.name, function.name)) if module.is_stub else None
         if special is not None:
-            return special(evaluator, node, args, keywords)
+            result = special(evaluator, node, args, keywords)
+            if result is not None:  # None: the call is not of the special form
+                return result
         bound = bind_arguments(function, callee.bound_self, args, keywords)
         transcendental = "transcendental" in function.decorators
         if module.is_stub and module.name == "math":
@@ -516,7 +528,9 @@ class Engine:
             return result if result is not None else UNKNOWN
         if module.is_stub or "<record>" in function.decorators:
             # unknown in, unknown out: library calls alone never make a value known
-            any_known = any(isinstance(value, Quantity) for values in bound.values() for value, _ in values)
+            # a method of a stubbed class is asked of a known object: its instance or class
+            any_known = isinstance(callee.bound_self, (InstanceValue, ClassValue)) or any(
+                isinstance(value, Quantity) for values in bound.values() for value, _ in values)
             if isinstance(returned, Quantity) and (any_known or not function.params):
                 return returned
             return UNKNOWN
@@ -552,6 +566,8 @@ class Engine:
     def _pint_decorated_arguments(self, function: FunctionInfo, bound: dict, evaluator) -> None:
         """pint's ``@wraps`` (strict, the default) and ``@check`` refuse plain numbers for the
         parameters they give a unit; a quantity of the wrong dimension is caught as usual."""
+        if "<pint-lenient>" in function.decorators:
+            return  # @ureg.wraps(..., strict=False) takes plain numbers as given in its units
         for param in function.params:
             if param.spec is None:
                 continue
@@ -661,10 +677,36 @@ def _power_call(evaluator: ScopeEvaluator, node, args, keywords) -> Any:
     return evaluator._power(node, args[0][0], args[1][0])
 
 
-# Calls whose result the stub notation cannot express: the exponent's value matters.
+def _members_call(evaluator: ScopeEvaluator, node, args, keywords) -> Any:
+    """``min([a, b])``, ``max((a, b))``, ``sum([a, b])``: the members of a literal list,
+    tuple or set must agree, as the arguments of ``min(a, b)`` do (reported at the call).
+    Any other form (None) takes the general path."""
+    if len(args) != 1 or args[0][0] is STAR:
+        return None
+    value, literal = args[0]
+    if not isinstance(literal, (ast.List, ast.Tuple, ast.Set)) or len(literal.elts) < 2 \
+            or any(isinstance(element, ast.Starred) for element in literal.elts):
+        return None
+    # a tuple's value holds its members; a list or set is one merged value, so read them again
+    members = value.items if isinstance(value, TupleValue) else [evaluator.expr(e) for e in literal.elts]
+    first = next((member for member in members if isinstance(member, Quantity)), None)
+    if first is None:
+        return UNKNOWN
+    name = node.func.attr if isinstance(node.func, ast.Attribute) else getattr(node.func, "id", "min")
+    for member in members:
+        if member is not first:
+            evaluator.report(node, checks.check_combination(f"members of {name}()", first, member))
+    return first
+
+
+# Calls whose result the stub notation cannot express: the exponent's value matters, or
+# the members of one literal argument must agree.
 _SPECIAL_CALLS = {
     ("numpy", "power"): _power_call,
     ("numpy", "float_power"): _power_call,
     ("math", "pow"): _power_call,
     ("builtins", "pow"): _power_call,
+    ("builtins", "min"): _members_call,
+    ("builtins", "max"): _members_call,
+    ("builtins", "sum"): _members_call,
 }

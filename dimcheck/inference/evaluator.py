@@ -15,6 +15,7 @@ import ast
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
 
+from ..declarations.annotations import AliasRef
 from ..declarations.symbols import (
     FunctionInfo, bound_only_by_definition, bound_only_by_import, comment_spec, imported_names, make_function,
     name_spec, read_annotation, record_import,
@@ -239,6 +240,10 @@ class ScopeEvaluator:
             spec = comment_spec(self.module, node.lineno, node.end_lineno or node.lineno)
         if spec is not None and isinstance(node.target, ast.Name):
             declared = self.declare(node.target.id, spec)
+            if declared is None and spec.__class__ is AliasRef:
+                # ``x: Scalar = 2.5  # [m]`` with Scalar an alias of no unit: the comment says it
+                comment = comment_spec(self.module, node.lineno, node.end_lineno or node.lineno)
+                declared = self.declare(node.target.id, comment) if comment is not None else None
             if declared is not None:
                 if value is not None:
                     self.report(node.value, checks.check_binding(f"'{node.target.id}'", declared, value))

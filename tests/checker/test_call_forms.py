@@ -1,0 +1,98 @@
+"""Calls beyond plain arguments: members of one literal given to min/max/sum, tuples
+returned without a declaration, methods of classes declared in the user's stubs, and
+pint's lenient ``@wraps`` (contract, sections 2, 3 and 8). Scenarios are invented."""
+
+import json
+import subprocess
+import sys
+import textwrap
+
+from .helpers import codes
+
+
+def test_members_of_a_literal_given_to_min_max_or_sum_must_agree():
+    assert codes('''\
+        from typing import Annotated
+
+        def hedge(trim: Annotated[float, "m"], wait: Annotated[float, "s"]):
+            a = min([trim, wait])
+            b = sum((trim, wait))
+            c = max({trim, wait})
+            d = sum([trim, trim])          # the same unit: clean
+            e = min([trim, 0.0])           # zero matches any dimension
+            f = max(trim, wait)            # as arguments, as before
+            return a, b, c, d, e, f
+    ''') == [(4, "DIM101"), (5, "DIM101"), (6, "DIM101"), (9, "DIM101")]
+
+
+def test_the_members_result_keeps_their_unit():
+    assert codes('''\
+        from typing import Annotated
+
+        def longest(a: Annotated[float, "m"], b: Annotated[float, "m"], t: Annotated[float, "s"]):
+            return max([a, b]) + t
+    ''') == [(4, "DIM101")]
+
+
+def test_numbers_in_a_returned_tuple_are_unknown_to_the_caller():
+    # the return annotation (a tuple of units) is not read, so the caller knows nothing;
+    # it must not see the literal 2.0 as a bare number (DIM203)
+    assert codes('''\
+        from typing import Annotated
+
+        def pair() -> tuple[Annotated[float, "m"], Annotated[float, "s"]]:
+            return 1.0, 2.0
+
+        reach: Annotated[float, "m"] = 3.0
+        total = pair()[1] + reach
+    ''') == []
+
+
+def test_methods_and_properties_of_a_stubbed_class_give_their_declared_units(tmp_path):
+    (tmp_path / "typings").mkdir()
+    (tmp_path / "typings" / "pumpkit.pyi").write_text(textwrap.dedent('''\
+        from typing import Annotated
+        class Pump:
+            def power(self) -> Annotated[float, "W"]: ...
+            @property
+            def head(self) -> Annotated[float, "m"]: ...
+    '''))
+    (tmp_path / "pyproject.toml").write_text('[tool.dimcheck]\nstubs = ["typings"]\n')
+    (tmp_path / "station.py").write_text(textwrap.dedent('''\
+        from typing import Annotated
+        from pumpkit import Pump
+
+        def run(p: Pump, t: Annotated[float, "s"]):
+            a = Pump().power() + t
+            b = p.power() + t
+            c = p.head + t
+            return a, b, c
+    '''))
+    result = subprocess.run([sys.executable, "-m", "dimcheck", "check", "--no-cache", "--format", "json", "."],
+                            cwd=tmp_path, capture_output=True, text=True, timeout=120)
+    assert [(f["line"], f["code"]) for f in json.loads(result.stdout)["findings"]] == [
+        (5, "DIM101"), (6, "DIM101"), (7, "DIM101")]
+
+
+def test_pint_wraps_with_strict_false_takes_plain_numbers():
+    # pint's own behaviour: strict=False accepts a plain number as given in the unit
+    assert codes('''\
+        import pint
+        ureg = pint.UnitRegistry()
+
+        @ureg.wraps("m", "m", strict=False)
+        def lenient(x):
+            return x
+
+        @ureg.wraps("m", "m", False)
+        def lenient_too(x):
+            return x
+
+        @ureg.wraps("m", "m")
+        def strict(x):
+            return x
+
+        lenient(2.0)
+        lenient_too(2.0)
+        strict(2.0)
+    ''') == [(18, "DIM104")]
