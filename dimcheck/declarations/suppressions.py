@@ -19,7 +19,7 @@ def ignored_codes(line_text: str) -> frozenset[str] | None:
     """Codes suppressed on a line: None when none, ``ALL_CODES`` for a bare ignore."""
     if "dimcheck" not in line_text:
         return None
-    match = _IGNORE.search(line_text)
+    match = next((found for found in _IGNORE.finditer(line_text) if _in_comment(line_text, found.start())), None)
     if match is None:
         return None
     if match.group(1) is None:
@@ -30,3 +30,28 @@ def ignored_codes(line_text: str) -> frozenset[str] | None:
 def is_suppressed(code: str, line_text: str) -> bool:
     codes = ignored_codes(line_text)
     return codes is not None and (codes is ALL_CODES or code in codes)
+
+
+def _in_comment(line: str, position: int) -> bool:
+    """Whether ``position`` is inside the line's comment, not in a string literal such as
+    ``"# dimcheck: ignore"`` (strings opened on an earlier line are not seen)."""
+    quote = None
+    index = 0
+    while index <= position:
+        char = line[index]
+        if quote is not None:
+            if char == "\\":
+                index += 2
+                continue
+            if line.startswith(quote, index):
+                index += len(quote)
+                quote = None
+                continue
+        elif char == "#":
+            return True
+        elif char in "'\"":
+            quote = line[index:index + 3] if line[index:index + 3] in ('"""', "'''") else char
+            index += len(quote)
+            continue
+        index += 1
+    return False

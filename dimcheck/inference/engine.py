@@ -251,12 +251,17 @@ class Engine:
                 return value
         return UNKNOWN
 
-    def attribute_declaration(self, owner: Any, attr: str) -> Quantity | None:
+    def attribute_declaration(self, owner: Any, attr: str, requester: ModuleSymbols | None = None) -> Quantity | None:
+        """The unit declared for ``owner.attr`` (a class attribute, or a module's declared
+        global as ``requester`` imports that module), or None."""
         if isinstance(owner, (InstanceValue, ClassValue)):
             found = self._class_member(owner.info, attr, 0)
             if found is not None and found[0] == "attribute":
                 value = self.declared(found[2].module, found[1])
                 return value if isinstance(value, Quantity) else None
+        elif isinstance(owner, ModuleValue):
+            target = self.project.find_from(requester, owner.name)
+            return self.global_declaration(target, attr) if target is not None else None
         return None
 
     def _ndarray_class(self) -> ClassInfo | None:

@@ -285,7 +285,7 @@ class ScopeEvaluator:
                     self.bind(element, item, value_node)
         elif isinstance(target, ast.Attribute):
             owner = self.expr(target.value)
-            declared = self.engine.attribute_declaration(owner, target.attr)
+            declared = self.engine.attribute_declaration(owner, target.attr, self.module)
             if declared is not None:
                 self.report(value_node, checks.check_binding(f"attribute '{target.attr}'", declared, value))
             elif self.baseline and isinstance(owner, InstanceValue):

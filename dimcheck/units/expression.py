@@ -370,7 +370,9 @@ def _tokenize(text: str) -> list[_Token]:
         elif char == "^":
             end = index + 1
             tokens.append(_Token("op", "**", column, spaced))
-        elif char in _MULTIPLY_SIGNS:
+        elif char in _MULTIPLY_SIGNS or (char == "." and not spaced and tokens and tokens[-1].kind == "name"
+                                         and text[index + 1 : index + 2].isalpha()):
+            # a dot between two names multiplies, as pint reads it ("N.m", "Pa.s")
             end = index + 1
             tokens.append(_Token("op", "*", column, spaced))
         elif char in "/()+-":

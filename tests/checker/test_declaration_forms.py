@@ -86,3 +86,28 @@ def test_a_comment_unit_on_a_line_with_non_ascii_text_is_located_in_characters()
     found = findings('π_r = "é"; q = 3.0  # [kgq]\nw = 2.0  # [kgq]\n')
     assert [(f.line, f.column, f.end_column, f.code) for f in found] == [
         (1, 24, 27, "DIM901"), (2, 13, 16, "DIM901")]
+
+
+def test_assigning_to_a_declared_global_of_another_module(tmp_path):
+    # a kiln controller sets the set-point of its settings module
+    from dimcheck import check_paths
+
+    (tmp_path / "settings.py").write_text('from typing import Annotated\nsetpoint: Annotated[float, "K"] = 1200.0\n')
+    (tmp_path / "control.py").write_text(
+        "from typing import Annotated\nimport settings\n\n"
+        'def adjust(t: Annotated[float, "s"], target: Annotated[float, "K"]):\n'
+        "    settings.setpoint = t\n"
+        "    settings.setpoint = target\n")
+    report = check_paths([str(tmp_path)])
+    assert [(f.line, f.code) for f in report.findings] == [(5, "DIM103")]
+
+
+def test_a_dot_between_unit_names_multiplies_as_in_pint():
+    assert codes('''\
+        from typing import Annotated
+
+        def torque(f: Annotated[float, "N"], arm: Annotated[float, "m"]) -> Annotated[float, "N.m"]:
+            return f * arm
+
+        viscosity: Annotated[float, "Pa.s"] = 1.0e-3
+    ''') == []

@@ -282,6 +282,16 @@ def test_suppression_comments():
     """) == [(7, "DIM101"), (8, "DIM203")]
 
 
+def test_a_suppression_written_inside_a_string_is_not_a_comment():
+    assert check("""\
+        def f(h: Annotated[float, "m"], t: Annotated[float, "s"]):
+            note = "# dimcheck: ignore"; a = h + t
+            tag = '# dimcheck: ignore[DIM101]'; b = h + t
+            text = "# not this"; c = h + t  # dimcheck: ignore[DIM101]
+            d = h + t  # reviewed # dimcheck: ignore
+    """) == [(5, "DIM101"), (6, "DIM101")]
+
+
 def test_skip_file():
     assert check("""\
         # dimcheck: skip-file

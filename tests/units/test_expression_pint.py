@@ -27,6 +27,8 @@ EXPRESSIONS = [
     "percent", "dimensionless", "1", "m/m", "count/s", "nmi/h", "knot", "ft/min",
     "gallon/minute", "acre*ft", "hp", "kg/m**3", "g/cm**3", "N/mm^2", "lb/ft**3",
     "oz/in**2", "slug/ft**3", "cP", "St", "P", "mPa*s", "m**2/s", "Pa s",
+    # a dot between names multiplies, as in pint ("N.m", engineering documents write it)
+    "Pa.s", "N.m", "kg.m^2", "kW.h/m^2",
 ]
 
 
