@@ -1,6 +1,8 @@
 """Code that uses pint quantities, checked statically; each verdict follows what pint
 itself does at run time (pint 0.25 as the reference library, contract section 8)."""
 
+import pytest
+
 from .helpers import codes
 
 HEADER = "import math\nimport numpy as np\nimport pint\nfrom typing import Annotated\nureg = pint.UnitRegistry()\nQ_ = ureg.Quantity\n"
@@ -122,3 +124,36 @@ def test_check_guard_narrows_an_unknown_quantity():
         '        return q + Q_(1, "s")\n'             # 9: q is a length here
         '    return q + Q_(1, "s")\n'                 # 10: unknown here
     ) == [(9, "DIM101")]
+
+
+
+# Each call with how to make it at run time (pint as the reference library raises for each).
+MATH_CALLS = {
+    "isfinite(q)": lambda math, q: math.isfinite(q),
+    "isnan(q)": lambda math, q: math.isnan(q),
+    "isinf(q)": lambda math, q: math.isinf(q),
+    "frexp(q)": lambda math, q: math.frexp(q),
+    "modf(q)": lambda math, q: math.modf(q),
+    "ulp(q)": lambda math, q: math.ulp(q),
+    "remainder(q, q)": lambda math, q: math.remainder(q, q),
+    "nextafter(q, q)": lambda math, q: math.nextafter(q, q),
+    "ldexp(q, 2)": lambda math, q: math.ldexp(q, 2),
+}
+
+
+@pytest.mark.parametrize("call", list(MATH_CALLS))
+def test_every_math_function_refuses_a_dimensional_quantity(call):
+    import math
+
+    import pint
+
+    ureg = pint.UnitRegistry()
+    with pytest.raises(pint.DimensionalityError):
+        MATH_CALLS[call](math, ureg.Quantity(2.5, "m"))
+    assert codes(f'''\
+        import math
+        import pint
+        ureg = pint.UnitRegistry()
+        q = ureg.Quantity(2.5, "m")
+        result = math.{call}
+    ''') == [(5, "DIM104")] * call.count("q")  # each quantity argument is refused
