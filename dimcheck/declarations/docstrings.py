@@ -9,8 +9,8 @@ Two docstring styles are read, and only their parameter and return sections:
       rho : float
           Fluid density [kg/m^3].
 
-* Google: an ``Args:``, ``Arguments:`` or ``Returns:`` header with indented entries such
-  as ``rho (float): fluid density [kg/m^3].``, the description possibly continued on
+* Google: an ``Args:``, ``Arguments:``, ``Parameters:``, ``Params:``, ``Returns:`` or
+  ``Return:`` header with indented entries such as ``rho (float): fluid density [kg/m^3].``, the description possibly continued on
   more deeply indented lines. A Google ``Returns:`` section is one free-text description.
 
 A bracket declares the unit of the entry only when it ENDS the first paragraph of the
@@ -61,7 +61,8 @@ _NOT_UNIT_CHARS = re.compile(r"[,=;:+#'\"`{}<>!?@&|\\$]|\.\.\.")
 _NUMBER = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?")
 
 _NUMPYDOC_SECTIONS = {"Parameters": "params", "Other Parameters": "params", "Returns": "returns"}
-_GOOGLE_SECTIONS = {"Args:": "params", "Arguments:": "params", "Returns:": "returns"}
+_GOOGLE_SECTIONS = {"Args:": "params", "Arguments:": "params", "Parameters:": "params", "Params:": "params",
+                    "Returns:": "returns", "Return:": "returns"}
 _UNDERLINE = re.compile(r"-{3,}")
 # numpydoc entry: "x, y : float", "rho: float", "rho" (no type).
 _NUMPYDOC_ENTRY = re.compile(r"(\*{0,2}[A-Za-z_]\w*(?:\s*,\s*\*{0,2}[A-Za-z_]\w*)*)\s*(?::.*)?")

@@ -554,6 +554,19 @@ CASES = [
         "Return the pipe's head loss [m].",
         [],
     ),
+    (
+        # Google style also spells the section "Parameters:" (with the colon)
+        "google_parameters_header",
+        """Settling pond outflow.
+
+    Parameters:
+        depth (float): water depth over the weir [m].
+
+    Return:
+        Outflow [m^3/s].
+    """,
+        [("depth", "m", 4, 51), ("return", "m^3/s", 7, 18)],
+    ),
     ("empty_docstring", "", []),
     ("whitespace_only_docstring", "   \n\n  ", []),
     ("no_bracket_at_all", "Parameters\n----------\nx : float\n    Width.\n", []),
