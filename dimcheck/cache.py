@@ -132,8 +132,15 @@ class ResultCache:
         for module, used in dependencies.items():
             self.modules[module] = self._entry(module, used)
             for target in used:
-                if target not in self.modules and self.hash_of(target) != ABSENT:
+                entry = self.modules.get(target)
+                if isinstance(entry, dict) and self._unchanged(target, entry):
+                    continue  # as recorded: its entry (and what it uses) still holds
+                # New, or changed since it was recorded: record it as this run read it. An
+                # old entry kept here would let the file's earlier content pass as current.
+                if self.hash_of(target) != ABSENT:
                     self.modules[target] = self._entry(target, dependencies.get(target, ()))
+                else:
+                    self.modules.pop(target, None)  # gone: its reappearance is a change
 
     def _make_folder(self) -> None:
         """The cache folder, created with a ``.gitignore`` of ``*``: it sits in the user's

@@ -172,3 +172,24 @@ def test_the_cache_folder_ignores_itself_in_git(tree):
     staged = subprocess.run(["git", "diff", "--cached", "--name-only"], cwd=tree, capture_output=True,
                             text=True, check=True).stdout.split()
     assert sorted(staged) == ["units.py", "use.py"]
+
+
+def _check_file(folder: Path, name: str):
+    result = subprocess.run([sys.executable, "-m", "dimcheck", "check", name, "--format", "json"],
+                            cwd=folder, capture_output=True, text=True, timeout=120)
+    assert "Traceback" not in result.stderr
+    return [(f["path"], f["line"], f["code"]) for f in json.loads(result.stdout)["findings"]]
+
+
+@pytest.mark.parametrize("aged", [False, True])
+def test_an_imported_module_back_to_its_earlier_text_is_not_mistaken_for_unchanged(tree, aged):
+    # Only use.py is named (as a pre-commit hook names the staged files); units.py, which
+    # it imports, changes and then goes back (an undo, a checkout, a stash and restore).
+    bug = [("use.py", 3, "DIM101")]
+    steps = [(UNITS, bug), (UNITS.replace('"s"', '"m"'), []), (UNITS, bug), (UNITS.replace('"s"', '"m"'), [])]
+    for age, (text, expected) in enumerate(steps):
+        (tree / "units.py").write_text(text)
+        if aged:  # every version older than the cache's two-second window, with its own time
+            _age(tree / "units.py", 100 - 10 * age)
+            _age(tree / "use.py", 200)
+        assert _check_file(tree, "use.py") == expected, f"step {age}"
