@@ -14,6 +14,7 @@ import logging
 import os
 import threading
 from concurrent.futures import ThreadPoolExecutor
+from urllib.parse import unquote
 
 from lsprotocol import types
 from pygls.lsp.server import LanguageServer
@@ -37,7 +38,10 @@ _SEVERITY = {"error": types.DiagnosticSeverity.Error, "warning": types.Diagnosti
 class DimcheckServer(LanguageServer):
     def __init__(self, session: Session | None = None, change_delay: float = CHANGE_DELAY):
         super().__init__("dimcheck", __version__,
-                         text_document_sync_kind=types.TextDocumentSyncKind.Incremental)
+                         text_document_sync_kind=types.TextDocumentSyncKind.Full)
+        # Full, not incremental: pygls applies incremental edits splitting lines as
+        # str.splitlines does (at form feeds and U+2028 too), while LSP counts only \n,
+        # \r\n and \r, so an edit after a form feed would land on the wrong text.
         self.session = session or Session()
         self.change_delay = change_delay
         # deep syntax trees recurse deeply; a worker thread's default stack is too small
@@ -56,10 +60,19 @@ class DimcheckServer(LanguageServer):
         chosen = str(self.workspace.position_encoding or UTF16)
         return {"utf-8": UTF8, "utf-32": UTF32}.get(chosen, UTF16)
 
+    def is_open(self, uri: str) -> bool:
+        """Whether the editor has ``uri`` open (pygls keys documents by the decoded URI,
+        while editors send ``my%20project/flow.py``)."""
+        return unquote(uri) in self.workspace.text_documents
+
+    def open_uris(self) -> list[str]:
+        """The URIs of the open documents, as the editor sent them."""
+        return [document.uri for document in self.workspace.text_documents.values()]
+
     def open_texts(self) -> dict[str, str]:
         texts = {}
-        for uri, document in self.workspace.text_documents.items():
-            path = to_fs_path(uri)
+        for document in self.workspace.text_documents.values():
+            path = to_fs_path(document.uri)
             if path is not None and path.endswith(SUFFIXES):
                 texts[path] = document.source
         return texts
@@ -91,7 +104,7 @@ class DimcheckServer(LanguageServer):
         finally:
             if self._pending.get(uri) is asyncio.current_task():
                 del self._pending[uri]
-        if issues is None or uri not in self.workspace.text_documents:
+        if issues is None or not self.is_open(uri):
             return
         document = self.workspace.get_text_document(uri)
         if document.version != version:
@@ -158,7 +171,7 @@ class DimcheckServer(LanguageServer):
     async def hover(self, params: types.HoverParams) -> types.Hover | None:
         uri = params.text_document.uri
         path = to_fs_path(uri)
-        if path is None or not path.endswith(SUFFIXES) or uri not in self.workspace.text_documents:
+        if path is None or not path.endswith(SUFFIXES) or not self.is_open(uri):
             return None
         document = self.workspace.get_text_document(uri)
         lines = split_lines(document.source)
@@ -196,7 +209,7 @@ class DimcheckServer(LanguageServer):
     # -- code actions --------------------------------------------------------------------------------
     def code_actions(self, params: types.CodeActionParams) -> list[types.CodeAction]:
         uri = params.text_document.uri
-        if uri not in self.workspace.text_documents:
+        if not self.is_open(uri):
             return []
         lines = split_lines(self.workspace.get_text_document(uri).source)
         encoding = self.encoding()
@@ -238,8 +251,9 @@ def build_server(session: Session | None = None, change_delay: float = CHANGE_DE
     async def did_save(params: types.DidSaveTextDocumentParams) -> None:
         server.schedule(params.text_document.uri, 0)
         # other open documents may import the saved one: check them again too
-        for uri in list(server.workspace.text_documents):
-            if uri != params.text_document.uri:
+        saved = unquote(params.text_document.uri)
+        for uri in server.open_uris():
+            if unquote(uri) != saved:
                 server.schedule(uri, server.change_delay)
 
     @server.feature(types.TEXT_DOCUMENT_DID_CLOSE)

@@ -37,6 +37,7 @@ def client(workspace):
         capabilities = result["capabilities"]
         assert capabilities["hoverProvider"]
         assert capabilities["codeActionProvider"]
+        assert capabilities["textDocumentSync"]["change"] == 1  # the whole text on each change
         yield lsp
     finally:
         lsp.close()
@@ -125,6 +126,37 @@ def test_code_action_inserts_the_suppression_comment(client, workspace):
     # applying it silences the finding, as dimcheck check would
     client.change(uri, 2, BUGGY.replace(line, line + edit["newText"]))
     assert client.diagnostics(uri, version=2) == []
+
+
+def test_a_document_whose_path_has_spaces_and_accents(client, workspace):
+    # editors send such a path percent-encoded (my%20pr%C3%B6ject): it must be the same
+    # document for diagnostics, hover, quick fixes and re-checks after a save
+    path = _write(workspace, "my pröject/buggy flow.py", BUGGY)
+    uri = client.open(path, BUGGY)
+    assert "%20" in uri
+    [diagnostic] = client.diagnostics(uri, version=1)
+    assert diagnostic["code"] == "DIM101"
+    line = BUGGY.splitlines()[BUG_LINE]
+    hover = client.request("textDocument/hover", {
+        "textDocument": {"uri": uri}, "position": {"line": BUG_LINE, "character": line.index("/")}})
+    assert hover["contents"]["value"].startswith("`p / (rho * g)`")
+    actions = client.request("textDocument/codeAction", {
+        "textDocument": {"uri": uri}, "range": diagnostic["range"], "context": {"diagnostics": [diagnostic]}})
+    assert [action["title"] for action in actions] == ["Suppress DIM101 on this line"]
+    other = client.open(_write(workspace, "my pröject/other.py", "x = 1\n"), "x = 1\n")
+    client.notify("textDocument/didSave", {"textDocument": {"uri": other}})
+    uris = {params["uri"] for params in client.notifications("textDocument/publishDiagnostics")}
+    assert not any(" " in published for published in uris)  # always the URI the editor sent
+
+
+def test_text_is_synchronised_whole_so_form_feeds_cannot_misplace_an_edit(client, workspace):
+    # (incremental edits are applied splitting lines at form feeds too; LSP does not)
+    text = 'from typing import Annotated\ndepth: Annotated[float, "m"] = 3.0\n\x0c\n' \
+           't: Annotated[float, "s"] = 2.0\nok = depth + depth\n'
+    uri = client.open(_write(workspace, "paged.py", text), text)
+    assert client.diagnostics(uri, version=1) == []
+    client.change(uri, 2, text.replace("depth + depth", "depth + t"))
+    assert [d["code"] for d in client.diagnostics(uri, version=2)] == ["DIM101"]
 
 
 def test_the_configuration_of_the_document_folder_applies(client, workspace):
