@@ -166,17 +166,31 @@ def read(baseline_file: str) -> frozenset[Entry]:
         raise BaselineError(f"cannot read baseline file {baseline_file}: {error.strerror}") from None
     except ValueError as error:
         raise BaselineError(f"baseline file {baseline_file} is not valid JSON: {error}") from None
-    if not isinstance(document, dict) or document.get("dimcheck-baseline") != FORMAT_VERSION:
-        raise BaselineError(f"{baseline_file} is not a dimcheck baseline (version {FORMAT_VERSION})")
+    version = document.get("dimcheck-baseline") if isinstance(document, dict) else None
+    # (True == 1 in Python: a boolean is no version number)
+    if type(version) is not int or version != FORMAT_VERSION or not isinstance(document.get("findings"), list):
+        raise BaselineError(f"{baseline_file} is not a dimcheck baseline (version {FORMAT_VERSION}, "
+                            f"with a list of findings)")
     entries = set()
-    for item in document.get("findings", []):
-        try:
-            entries.add(Entry(str(item["code"]), str(item["path"]), str(item["fingerprint"]),
-                              int(item["occurrence"])))
-        except (KeyError, TypeError, ValueError):
+    for item in document["findings"]:
+        entry = _entry_of(item)
+        if entry is None:
             raise BaselineError(f"baseline file {baseline_file} has a malformed entry: "
-                                f"{json.dumps(item)[:80]}") from None
+                                f"{json.dumps(item)[:80]}")
+        entries.add(entry)
     return frozenset(entries)
+
+
+def _entry_of(item) -> Entry | None:
+    """One recorded finding, or None when it is not one: three strings and a count."""
+    if not isinstance(item, dict):
+        return None
+    fields = [item.get(name) for name in ("code", "path", "fingerprint")]
+    occurrence = item.get("occurrence")
+    if not all(isinstance(field, str) and field for field in fields) \
+            or type(occurrence) is not int or occurrence < 0:
+        return None
+    return Entry(*fields, occurrence)
 
 
 def filter_findings(findings, known: frozenset[Entry], baseline_file: str) -> list:

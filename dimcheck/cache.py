@@ -19,6 +19,8 @@ import os
 import time
 from pathlib import Path
 
+from .files import read_regular_file
+
 FORMAT = 2
 ABSENT = "absent"
 # A file whose size and modification time are what they were when recorded is taken as
@@ -29,9 +31,8 @@ STABLE_NS = 2_000_000_000
 
 def content_hash(path: str) -> str:
     try:
-        with open(path, "rb") as handle:
-            return blake2b(handle.read(), digest_size=16).hexdigest()
-    except OSError:
+        return blake2b(read_regular_file(path), digest_size=16).hexdigest()
+    except OSError:  # missing, a folder, a pipe (never waited on), unreadable
         return ABSENT
 
 

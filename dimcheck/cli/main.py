@@ -121,6 +121,10 @@ def _run_check(args) -> int:
     report = check_paths(paths, config, select, ignore, use_cache=not args.no_cache, jobs=jobs)
     for error in report.errors:
         print(f"dimcheck: error: {error}", file=sys.stderr)
+    if report.files_checked == 0 and not report.errors:
+        # a clean exit that checked nothing is most often a wrong path or exclude: say so,
+        # on stderr, so the report on stdout stays what scripts expect (empty, or valid JSON)
+        print("dimcheck: no Python files found under the given paths", file=sys.stderr)
     if args.write_baseline is not None:
         if report.errors:  # a record of a partial run would hide nothing it should
             return EXIT_TROUBLE

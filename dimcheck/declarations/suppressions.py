@@ -35,9 +35,16 @@ def is_suppressed(code: str, line_text: str) -> bool:
 def _in_comment(line: str, position: int) -> bool:
     """Whether ``position`` is inside the line's comment, not in a string literal such as
     ``"# dimcheck: ignore"`` (strings opened on an earlier line are not seen)."""
+    start, _ = scan_line(line)
+    return start is not None and position >= start
+
+
+def scan_line(line: str) -> tuple[int | None, bool]:
+    """Where the line's comment starts (None without one), and whether the line ends inside
+    a string literal that it opens (a triple-quoted one going on to the next line)."""
     quote = None
     index = 0
-    while index <= position:
+    while index < len(line):
         char = line[index]
         if quote is not None:
             if char == "\\":
@@ -48,10 +55,10 @@ def _in_comment(line: str, position: int) -> bool:
                 quote = None
                 continue
         elif char == "#":
-            return True
+            return index, False
         elif char in "'\"":
             quote = line[index:index + 3] if line[index:index + 3] in ('"""', "'''") else char
             index += len(quote)
             continue
         index += 1
-    return False
+    return None, quote is not None

@@ -20,6 +20,7 @@ from pathlib import Path
 from ..declarations.comments import trailing_comment_units
 from ..declarations.annotations import AliasRef
 from ..declarations.symbols import DeclarationOptions, ImportRef, ModuleSymbols, collect_symbols
+from ..files import NotRegularFile, read_regular_file
 
 SHIPPED_STUBS = Path(__file__).resolve().parent.parent / "stubs"
 
@@ -69,10 +70,11 @@ class UnreadableFile(Exception):
 
 def read_source(path: str) -> str:
     try:
-        with open(path, "rb", buffering=0) as handle:  # unbuffered: one read of the whole file
-            data = handle.read()
+        data = read_regular_file(path)
     except IsADirectoryError:
         raise UnreadableFile("is a directory, not a file") from None
+    except NotRegularFile:
+        raise UnreadableFile("not a regular file") from None
     except OSError as error:
         raise UnreadableFile(f"cannot read file: {error.strerror or error}") from None
     try:

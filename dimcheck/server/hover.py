@@ -33,6 +33,13 @@ def contains(node: ast.AST, point: Point) -> bool:
 
 
 def _located_children(node: ast.AST):
+    if node.__class__ is ast.JoinedStr:
+        # an f-string: before Python 3.12 its text and field nodes all claim the whole
+        # string's span, so go straight to each field's expression, which has its own
+        for part in node.values:
+            if part.__class__ is ast.FormattedValue:
+                yield part.value
+        return
     for child in ast.iter_child_nodes(node):
         if hasattr(child, "lineno"):
             yield child

@@ -218,7 +218,8 @@ class DimcheckServer(LanguageServer):
         for diagnostic in params.context.diagnostics:
             code = str(diagnostic.code) if diagnostic.code is not None else ""
             line = diagnostic.range.start.line
-            if diagnostic.source != SOURCE or not code or not 0 <= line < len(lines) \
+            # (an unreadable file is not silenced by a comment: no fix to offer for DIM902)
+            if diagnostic.source != SOURCE or not code or code == "DIM902" or not 0 <= line < len(lines) \
                     or (line, code) in done:
                 continue
             done.add((line, code))

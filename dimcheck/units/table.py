@@ -16,6 +16,7 @@ kilogram dropped, first candidate wins. Pint warns about ambiguous names such as
 from __future__ import annotations
 
 import json
+import math
 import os
 from pathlib import Path
 from typing import Sequence
@@ -124,6 +125,8 @@ class UnitTable:
             if offset:
                 return None
             scale = prefix_factor * scale
+            if scale == 0.0 or not math.isfinite(scale):  # a prefix on a user's tiny or huge unit
+                return None
         return Unit(text, self._dimensions[dimension_index], scale, offset)
 
     def dimension_named(self, name: str) -> Dimension | None:
@@ -272,10 +275,12 @@ def _build_table(key: str, paths: Sequence[Path], extras: Sequence[str]) -> Unit
     except ImportError:
         raise UnitError("pint is needed to build the unit table (pip install pint)") from None
     registry = pint.UnitRegistry()
+    from .definition_files import load_definition_file  # the user's files, read with care
+
     for name in extras:
         _define_base_dimension(registry, name)
     for path in paths:
-        _load_definition_file(registry, path)
+        load_definition_file(registry, path)
 
     dimensions: list[Dimension] = []
     dimension_index: dict[Dimension, int] = {}
@@ -314,18 +319,6 @@ def _build_table(key: str, paths: Sequence[Path], extras: Sequence[str]) -> Unit
     )
 
 
-def _load_definition_file(registry, path: Path) -> None:
-    known = set(registry._units)
-    try:
-        registry.load_definitions(str(path))
-        # pint resolves definitions lazily; resolve the new ones now so that a unit
-        # built on an undefined name is reported against this file.
-        for name in set(registry._units) - known:
-            registry.get_base_units(name)
-    except Exception as error:  # pint raises many kinds; all mean "bad file"
-        raise UnitError(f"cannot load unit definitions from {path}: {_one_line(error)}") from None
-
-
 def _define_base_dimension(registry, name: str) -> None:
     if f"[{name}]" in registry._dimensions:
         return
@@ -355,11 +348,6 @@ def _definition_row(registry, definition, intern) -> list:
         return [name, dimension, float(converter.scale * factor), float(converter.offset * factor)]
     except Exception:  # a definition pint cannot reduce to base units: treat as unknown
         return unsupported
-
-
-def _one_line(error: Exception) -> str:
-    text = " ".join(str(error).split())
-    return text[:200] or type(error).__name__
 
 
 def write_shipped_default_table() -> Path:

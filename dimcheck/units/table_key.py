@@ -8,9 +8,11 @@ try:  # the same function hashlib gives, without loading OpenSSL (megabytes of m
 except ImportError:  # pragma: no cover - a Python built without it
     from hashlib import blake2b
 import os
+import re
 from pathlib import Path
 from collections.abc import Sequence
 
+from ..files import read_regular_file
 from .errors import UnitError
 
 # Bump when the JSON layout or the way entries are computed changes.
@@ -26,7 +28,8 @@ def unit_table_key(definition_files: Sequence[str | Path] = (),
 
 
 def definition_inputs(definition_files: Sequence[str | Path], extra_base_dimensions: Sequence[str]):
-    """The definition files (paths and contents) and the extra base dimension names."""
+    """The definition files (paths and contents, followed by the contents of the files
+    they ``@import``, which the table depends on too) and the extra base dimension names."""
     paths = [Path(path) for path in definition_files]
     contents = []
     for path in paths:
@@ -34,8 +37,37 @@ def definition_inputs(definition_files: Sequence[str | Path], extra_base_dimensi
             contents.append(path.read_bytes())
         except OSError as error:
             raise UnitError(f"cannot read unit definition file {path}: {error.strerror or error}") from None
+    contents += _imported_contents(paths, contents)
     extras = list(dict.fromkeys(name.strip().strip("[]") for name in extra_base_dimensions))
     return paths, contents, extras
+
+
+_IMPORT_LINE = re.compile(rb"^[ \t]*@import[ \t]+(\S+)", re.MULTILINE)
+_MAX_IMPORTED = 64  # as many as loading the files allows (definition_files.py)
+
+
+def _imported_contents(paths: Sequence[Path], contents: Sequence[bytes]) -> list[bytes]:
+    """The contents of the files the definition files import, however indirectly, each
+    once: an edit to one of them must change the key. An unreadable one counts as empty
+    (loading reports it)."""
+    found: list[bytes] = []
+    seen = {os.path.realpath(path) for path in paths}
+    pending = list(zip(paths, contents))
+    while pending and len(found) < _MAX_IMPORTED:
+        path, data = pending.pop(0)
+        for match in _IMPORT_LINE.finditer(data):
+            target = path.parent / os.fsdecode(match.group(1))
+            real = os.path.realpath(target)
+            if real in seen or len(found) >= _MAX_IMPORTED:
+                continue
+            seen.add(real)
+            try:
+                imported = read_regular_file(str(target))
+            except OSError:
+                imported = b""
+            found.append(imported)
+            pending.append((target, imported))
+    return found
 
 
 def _pint_version() -> str:

@@ -172,3 +172,47 @@ def test_walking_skips_tool_folders_and_virtual_environments_under_any_name(proj
     # named itself, a folder is walked: the user asked for it
     named = run("check", "py311-tools", "--format", "json", "--no-cache", cwd=project)
     assert [f["path"] for f in json.loads(named.stdout)["findings"]] == ["py311-tools/lib/copy.py"]
+
+
+NO_FILES = "dimcheck: no Python files found under the given paths"
+
+
+@pytest.fixture
+def empty_greenhouse(tmp_path):
+    """A folder with files, none of them Python: notes, a sensor log, an excluded-looking venv."""
+    (tmp_path / "greenhouse" / "logs").mkdir(parents=True)
+    (tmp_path / "greenhouse" / "README.txt").write_text("vent schedule\n")
+    (tmp_path / "greenhouse" / "logs" / "humidity.csv").write_text("t,rh\n0,0.61\n")
+    return tmp_path
+
+
+def test_folder_without_python_files_says_so_on_stderr(empty_greenhouse):
+    result = run("check", "greenhouse", cwd=empty_greenhouse)
+    assert result.returncode == 0
+    assert result.stdout == ""
+    assert result.stderr.splitlines() == [NO_FILES]
+
+
+@pytest.mark.parametrize("form", ["json", "sarif"])
+def test_folder_without_python_files_keeps_a_valid_empty_report(empty_greenhouse, form):
+    result = run("check", "--format", form, "greenhouse", cwd=empty_greenhouse)
+    assert result.returncode == 0
+    assert result.stderr.splitlines() == [NO_FILES]
+    document = json.loads(result.stdout)
+    if form == "json":
+        assert document["files_checked"] == 0 and document["findings"] == []
+    else:
+        assert document["runs"][0]["results"] == []
+
+
+def test_folder_with_python_files_prints_no_such_note(project):
+    result = run("check", "pkg/clean.py", cwd=project)
+    assert result.returncode == 0
+    assert result.stdout == "" and result.stderr == ""
+
+
+def test_missing_path_gets_its_error_not_the_no_files_note(empty_greenhouse):
+    result = run("check", "no_such_bed", cwd=empty_greenhouse)
+    assert result.returncode == 2
+    assert NO_FILES not in result.stderr
+    assert len(result.stderr.splitlines()) == 1

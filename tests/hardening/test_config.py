@@ -5,6 +5,8 @@ from the current directory. No traceback, ever.
 
 from __future__ import annotations
 
+import os
+
 import pytest
 
 from ._cli import (
@@ -276,3 +278,121 @@ def test_unknown_command(tmp_path):
 def assert_no_usage_dump(proc):
     assert "Traceback" not in proc.stderr
     assert len([line for line in proc.stderr.splitlines() if line.strip()]) <= 1, proc.stderr
+
+
+# -- hostile unit definition files: a one-line error naming the file, within seconds ----------
+
+# name -> (content of the definition file, text the one-line error must hold besides the file)
+HOSTILE_UNIT_FILES = {
+    # pint would evaluate these powers with exact integers and never return
+    "power_tower": ("sluice_step = 10**10**10 * m\n", "power of a power"),
+    "power_tower_caret": ("sluice_step = 10^10^10 * m\n", "power of a power"),
+    "power_of_group_power": ("sluice_step = (10**999)**999 * m\n", "power of a power"),
+    "power_in_exponent_group": ("sluice_step = m**(2**999)\n", "power of a power"),
+    "huge_exponent": ("sluice_step = 10**99999 * m\n", "too large"),
+    "huge_exponent_group": ("sluice_step = m**(999*999*999)\n", "too large"),
+    "infinite_exponent": ("sluice_step = m**1e400\n", "too large"),
+    "infinite_dimension_exponent": ("[lock_volume] = [length] ** 1e400\n", "too large"),
+    # scales that make every conversion meaningless (or a division by zero later)
+    "zero_scale": ("dry_dock = 0 * m\n", "'dry_dock'"),
+    "underflow_scale": ("dry_dock = 1e-400 * m\n", "'dry_dock'"),
+    "infinite_scale": ("dry_dock = 1e400 * m\n", "'dry_dock'"),
+    "nan_scale": ("dry_dock = nan * m\n", "'dry_dock'"),
+    "zero_prefix": ("nothing- = 0\n", "'nothing-'"),
+    "infinite_offset": ("lock_degree = kelvin; offset: 1e400\n", "'lock_degree'"),
+    # every step fits, but pint's exact integers grow without limit along the chain
+    "growing_chain": ("gate_a = 10**300 * m\ngate_b = gate_a**999\ngate_c = gate_b**999\n"
+                      "gate_d = gate_c**999\n", "'gate_b'"),
+    # each unit built on the two before it: pint walks 2**40 paths
+    "diamond_lattice": ("chamber_u0 = 2.0 * m\nchamber_v0 = 3.0 * m\n" + "".join(
+        f"chamber_u{i} = chamber_u{i - 1} * chamber_v{i - 1}\n"
+        f"chamber_v{i} = chamber_u{i - 1} / chamber_v{i - 1}\n" for i in range(1, 41)), "ways deep"),
+    "unit_through_itself": ("paddle = 2 * oar\noar = 3 * paddle\n", "itself"),
+    "very_long_line": ("sluice_step = " + " * ".join(["m"] * 600) + "\n", "longer than"),
+    # pint internals must not show
+    "base_unit_with_factor": ("meter = [length]*2\n", "line 1"),
+    "division_by_zero": ("lock_rise = 1/0 * m\n", "line 1"),
+    "dangling_operator": ("\nlock_rise = m/\n", "line 2"),
+    "stray_end": ("lock_rise = 2 * m\n@end\n", "line 2"),
+    "unclosed_group": ("@group canal\nlock_rise = 2 * m\n", "@end"),
+    "import_cycle": ("@import plant_units.txt\n", "cycle"),
+    "import_missing": ("@import no_such_units.txt\n", "no_such_units.txt"),
+}
+
+PINT_INTERNALS = ("_is_base", "No loader function", "UnhandledParsingError", "UnexpectedEOS",
+                  "Traceback", "internal error")
+
+
+@pytest.mark.parametrize("content,needle", list(HOSTILE_UNIT_FILES.values()), ids=list(HOSTILE_UNIT_FILES))
+def test_hostile_units_file_is_a_one_line_error(tmp_path, content, needle):
+    project = _project(tmp_path, "units = [\"plant_units.txt\"]")
+    (project / "plant_units.txt").write_text(content, encoding="utf-8")
+    proc = run_cli(["check", WITNESS_NAME], cwd=project, timeout=20)
+    assert proc.returncode == 2, (proc.stdout, proc.stderr)
+    line = assert_one_line_error(proc, "plant_units.txt", "units", needle)
+    for internal in PINT_INTERNALS:
+        assert internal not in line, line
+
+
+def test_hostile_units_file_line_numbers(tmp_path):
+    project = _project(tmp_path, "units = [\"plant_units.txt\"]")
+    (project / "plant_units.txt").write_text("lock_rise = 2 * m\n# a comment\nlock_fall = 10**10**10 * m\n")
+    proc = run_cli(["check", WITNESS_NAME], cwd=project, timeout=20)
+    assert proc.returncode == 2
+    assert_one_line_error(proc, "plant_units.txt, line 3", "lock_fall")
+
+
+def test_error_in_imported_units_file_names_that_file(tmp_path):
+    project = _project(tmp_path, "units = [\"plant_units.txt\"]")
+    (project / "plant_units.txt").write_text("lock_rise = 2 * m\n@import canal_units.txt\n")
+    (project / "canal_units.txt").write_text("lock_fall = 3 * m\nweir_drop = 0 * m\n")
+    proc = run_cli(["check", WITNESS_NAME], cwd=project, timeout=20)
+    assert proc.returncode == 2
+    assert_one_line_error(proc, "canal_units.txt, line 2", "'weir_drop'", "zero")
+
+
+@pytest.mark.skipif(not hasattr(os, "mkfifo"), reason="named pipes need os.mkfifo")
+def test_units_file_importing_a_named_pipe(tmp_path):
+    project = _project(tmp_path, "units = [\"plant_units.txt\"]")
+    os.mkfifo(project / "pipe_units.txt")
+    (project / "plant_units.txt").write_text("@import pipe_units.txt\n")
+    proc = run_cli(["check", WITNESS_NAME], cwd=project, timeout=20)
+    assert proc.returncode == 2
+    assert_one_line_error(proc, "plant_units.txt", "pipe_units.txt", "not a regular file")
+
+
+def test_units_file_with_pint_style_powers_still_loads(tmp_path):
+    """The control: powers of unit names inside a group, fractional and negative exponents,
+    an imported file and a large but finite scale are all accepted."""
+    project = _project(tmp_path, "units = [\"plant_units.txt\"]")
+    (project / "plant_units.txt").write_text(
+        "# canal lock units\n"
+        "lock_length = (gravitational_constant * hbar / c ** 3) ** 0.5 * 1e35\n"
+        "lock_flow = m ** 3 / s ^ 1\n"
+        "lock_area = lock_length ** 2\n"
+        "lock_root = m ** (1/2) * s ** -1\n"
+        "@import canal_units.txt\n")
+    (project / "canal_units.txt").write_text("lock_pool = 1e30 * lock_area\n")
+    (project / "lock.py").write_text(
+        "pool = 2.0  # [lock_pool]\nflow = 3.0  # [lock_flow]\nlevel = pool + flow  # [m]\n")
+    proc = run_cli(["check", "--format", "json", "lock.py", WITNESS_NAME], cwd=project, timeout=30)
+    assert proc.returncode == 1, proc.stderr
+    assert proc.stderr == ""
+    report = report_of(proc)
+    assert_witness_reported(report)
+    codes = {f["code"] for f in report["findings"] if f["path"] == "lock.py"}
+    assert "DIM101" in codes and "DIM901" not in codes, report
+
+
+def test_prefix_on_a_tiny_or_huge_unit_is_unknown_not_a_crash(tmp_path):
+    """A valid definition whose scale a prefix pushes out of a float's range (1e-330)."""
+    project = _project(tmp_path, "units = [\"plant_units.txt\"]")
+    (project / "plant_units.txt").write_text("seep = 1e-300 * m\nreservoir = 1e300 * m\n")
+    (project / "dam.py").write_text("leak = 1.0  # [qseep]\nstore = 2.0  # [Qreservoir]\n"
+                                    "level = 3.0  # [m]\ngap = leak + level  # [m]\n")
+    proc = run_cli(["check", "--format", "json", "dam.py", WITNESS_NAME], cwd=project, timeout=30)
+    assert proc.returncode == 1
+    assert_clean_stderr(proc)
+    report = report_of(proc)
+    assert_witness_reported(report)
+    assert [f["code"] for f in report["findings"] if f["path"] == "dam.py"] == ["DIM901", "DIM901"]

@@ -375,3 +375,78 @@ def test_hostile_files_together_in_one_run(tmp_path):
     for name in ("blob.py", "garbled.py", "parens.py"):
         assert codes(report, name) == ["DIM902"], name
     assert_clean_stderr(proc)
+
+
+# -- files that are not regular files: reading must never block -----------------------------
+
+needs_fifo = pytest.mark.skipif(not hasattr(os, "mkfifo"), reason="named pipes need os.mkfifo")
+
+
+def _messages(report: dict, name: str) -> list[tuple[str, str]]:
+    return [(f["code"], f["message"]) for f in findings_for(report, name)]
+
+
+@needs_fifo
+def test_named_pipe_on_the_command_line(tmp_path):
+    # a FIFO with no writer: opening it the ordinary way would wait forever
+    os.mkfifo(tmp_path / "x.py")
+    proc, report = check_with_witness(tmp_path, "x.py", extra=("--no-cache",))
+    assert proc.returncode == 1
+    assert _messages(report, "x.py") == [("DIM902", "not a regular file")]
+
+
+@needs_fifo
+def test_named_pipe_found_while_walking_a_folder(tmp_path):
+    (tmp_path / "sluice").mkdir()
+    os.mkfifo(tmp_path / "sluice" / "gate.py")
+    write_witness(tmp_path / "sluice", "inner.py")
+    proc, report = check_with_witness(tmp_path, "sluice", extra=("--no-cache",))
+    assert proc.returncode == 1
+    assert _messages(report, "sluice/gate.py") == [("DIM902", "not a regular file")]
+    assert "DIM101" in codes(report, "sluice/inner.py")
+
+
+@needs_fifo
+def test_named_pipe_with_the_result_cache_on(tmp_path):
+    # the cache hashes files too: it must not wait on the pipe either, first run or second
+    os.mkfifo(tmp_path / "x.py")
+    write_witness(tmp_path)
+    for _ in range(2):
+        proc = run_cli(["check", "--format", "json", "x.py", WITNESS_NAME], cwd=tmp_path, timeout=20)
+        assert _messages(report_of(proc), "x.py") == [("DIM902", "not a regular file")]
+
+
+@pytest.mark.skipif(not os.path.exists("/dev/zero"), reason="needs /dev/zero")
+def test_link_to_an_endless_device(tmp_path):
+    os.symlink("/dev/zero", tmp_path / "zeros.py")
+    proc, report = check_with_witness(tmp_path, "zeros.py", extra=("--no-cache",))
+    assert proc.returncode == 1
+    assert _messages(report, "zeros.py") == [("DIM902", "not a regular file")]
+
+
+def test_directory_and_missing_file_keep_their_messages(tmp_path):
+    from dimcheck.inference.project import UnreadableFile, read_source
+
+    (tmp_path / "lock.py").mkdir()
+    with pytest.raises(UnreadableFile, match="is a directory, not a file"):
+        read_source(str(tmp_path / "lock.py"))
+    with pytest.raises(UnreadableFile, match="cannot read file: No such file"):
+        read_source(str(tmp_path / "missing.py"))
+
+
+def test_large_regular_file_reads_every_byte(tmp_path):
+    from dimcheck.inference.project import read_source
+
+    # beyond any single buffer size, with a last line that must not be cut off
+    body = "".join(f"canal_reach_{i} = {i}.0  # [m]\n" for i in range(200_000))
+    text = "\ufeff" + body + "weir_crest = 1.5  # [m]\n"
+    (tmp_path / "reaches.py").write_text(text, encoding="utf-8")
+    assert (tmp_path / "reaches.py").stat().st_size > 5_000_000
+    assert read_source(str(tmp_path / "reaches.py")) == text[1:]  # the BOM dropped, as before
+
+
+def test_crlf_bytes_are_read_unchanged(tmp_path):
+    from dimcheck.inference.project import read_source
+
+    (tmp_path / "gate.py").write_bytes(b"lift = 2.0  # [m]\r\nlower = 1.0  # [m]\r\n")
+    assert read_source(str(tmp_path / "gate.py")) == "lift = 2.0  # [m]\r\nlower = 1.0  # [m]\r\n"

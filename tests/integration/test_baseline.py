@@ -127,8 +127,15 @@ def test_missing_baseline_is_a_one_line_error(tmp_path, dimcheck):
         "dimcheck: error: baseline file not found: nowhere.json"]
 
 
-@pytest.mark.parametrize("content", ["not json", "[]", '{"dimcheck-baseline": 99}',
-                                     '{"dimcheck-baseline": 1, "findings": [{"code": "DIM101"}]}'])
+@pytest.mark.parametrize("content", [
+    "not json", "[]", '{"dimcheck-baseline": 99}',
+    '{"dimcheck-baseline": 1, "findings": [{"code": "DIM101"}]}',
+    '{"dimcheck-baseline": 1}',  # no findings list at all
+    '{"dimcheck-baseline": 1, "findings": {}}',
+    '{"dimcheck-baseline": true, "findings": []}',  # a boolean is not the version
+    '{"dimcheck-baseline": 1, "findings": [{"code": "DIM101", "path": "heating.py", '
+    '"fingerprint": "ab12", "occurrence": "0"}]}',  # a count written as text
+])
 def test_a_file_that_is_not_a_baseline_is_a_one_line_error(tmp_path, dimcheck, content):
     (tmp_path / "heating.py").write_text(HEATING)
     (tmp_path / "bad.json").write_text(content)

@@ -133,7 +133,8 @@ def test_clean_run_is_valid_sarif_with_no_results(dimcheck, validator, tmp_path)
 
 
 def test_notebook_finding_has_a_usable_sarif_location():
-    # The region counts lines within the cell; the logical location names the cell.
+    # A notebook's lines count within a cell, not in the file a viewer opens (its JSON):
+    # no region; the logical location and the message name the cell and its line.
     import jsonschema
     root = Path(__file__).resolve().parents[2]
     out = subprocess.run([sys.executable, "-m", "dimcheck", "check", "fixtures/notebooks/pump_sizing.ipynb",
@@ -143,5 +144,6 @@ def test_notebook_finding_has_a_usable_sarif_location():
     [result] = document["runs"][0]["results"]
     [location] = result["locations"]
     assert location["logicalLocations"] == [{"name": "cell 4", "kind": "module"}]
-    assert location["physicalLocation"]["region"]["startLine"] == 3
-    assert result["properties"]["cell"] == 4
+    assert "region" not in location["physicalLocation"]
+    assert result["message"]["text"].startswith("cell 4, line 3: ")
+    assert result["properties"]["cell"] == 4 and result["properties"]["cellRegion"]["startLine"] == 3

@@ -40,6 +40,23 @@ def test_suppression_edit_appends_or_extends_the_comment():
     assert suppression_edit("x = a + \\", "DIM101") is None  # no comment after a continuation
 
 
+def test_suppression_edit_never_touches_a_string_literal():
+    def applied(line: str, code: str):
+        edit = suppression_edit(line, code)
+        return None if edit is None else line[:edit.start] + edit.text + line[edit.end:]
+
+    # the ignore text inside a string is data: a real comment is added after it
+    line = "s = '# dimcheck: ignore[DIM201]'; bad = depth + t"
+    assert applied(line, "DIM101") == line + " # dimcheck: ignore[DIM101]"
+    line = "s = '# dimcheck: ignore'; bad = depth + t"
+    assert applied(line, "DIM101") == line + " # dimcheck: ignore[DIM101]"
+    # a line that ends inside a triple-quoted string: a comment there would be text
+    assert suppression_edit('msg = f"""{depth + t}', "DIM101") is None
+    # a real comment after a string is extended as before
+    line = 'label = "#1"; bad = depth + t  # dimcheck: ignore[DIM203]'
+    assert applied(line, "DIM101") == 'label = "#1"; bad = depth + t  # dimcheck: ignore[DIM203, DIM101]'
+
+
 def test_the_document_text_is_checked_not_the_file(tmp_path):
     path = tmp_path / "level.py"
     path.write_text(BUGGY.replace("z + p", "z"), encoding="utf-8")
@@ -109,3 +126,19 @@ def test_hover_describes_expressions_bindings_and_parameters(tmp_path):
     signature = session.hover(str(path), 3, 5)
     assert "level(p: Pa, z: m) -> m" in signature.markdown
     assert session.hover(str(path), 0, 2) is None  # an import: nothing about units
+
+
+def test_hover_inside_f_strings_after_literal_text(tmp_path):
+    # a kiln log line: the fields come after text, which (before Python 3.12) claims the
+    # whole string's span in the syntax tree
+    text = ('from typing import Annotated\n\n\n'
+            'def log(depth: Annotated[float, "m"]):\n'
+            '    return f"depth {depth:.1f} m, twice {2 * depth}"\n')
+    path = tmp_path / "kiln.py"
+    path.write_text(text, encoding="utf-8")
+    line = text.splitlines()[4]
+    session = Session()
+    first = session.hover(str(path), 4, line.index("depth:"))
+    assert first is not None and first.markdown.startswith("`depth`: m [L] length")
+    second = session.hover(str(path), 4, line.index("* depth"))
+    assert second is not None and second.markdown.startswith("`2 * depth`: m [L]")

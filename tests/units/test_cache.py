@@ -139,3 +139,15 @@ def test_default_cache_dir_follows_the_environment(monkeypatch, tmp_path):
     assert table_module.default_cache_dir() == tmp_path / "xdg" / "dimcheck"
     monkeypatch.delenv("XDG_CACHE_HOME")
     assert table_module.default_cache_dir() == Path.home() / ".cache" / "dimcheck"
+
+
+def test_editing_a_file_that_a_definition_file_imports_rebuilds_the_table(tmp_path, fresh_memo):
+    (tmp_path / "plant.txt").write_text("@import sacks.txt\npallet = 40 * sack\n")
+    (tmp_path / "sacks.txt").write_text("sack = 25 * kilogram\n")
+    first = load_unit_table([tmp_path / "plant.txt"], cache_dir=tmp_path / "cache")
+    assert parse_unit("pallet", first).scale == 1000.0
+    (tmp_path / "sacks.txt").write_text("sack = 50 * kilogram\n")
+    table_module._MEMO.clear()
+    second = load_unit_table([tmp_path / "plant.txt"], cache_dir=tmp_path / "cache")
+    assert second.key != first.key
+    assert parse_unit("pallet", second).scale == 2000.0
