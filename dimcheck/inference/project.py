@@ -211,6 +211,7 @@ class Project:
         self._root_of: dict[str, str] = {}  # module path -> its root
         self._import_roots: dict[str, tuple[str, ...]] = {}  # root -> the search order from there
         self._found: dict[tuple[tuple[str, ...], str], str | None] = {}  # (search order, name) -> file
+        self._found_from: dict[tuple[str, str], ModuleSymbols | None] = {}  # (requester path, name) -> module
         self._stub_paths: dict[str, Path] = {}
         # user stubs are listed after the shipped ones so that they override them
         for folder in [SHIPPED_STUBS, *stub_dirs]:
@@ -378,7 +379,13 @@ class Project:
         """``find_module`` on behalf of a module, remembering that it depends on the result:
         the file found, and every place searched before it (a file appearing there would be
         imported instead)."""
-        target = self.find_module(name, requester)
+        key = (requester.path if requester is not None else "", name)
+        if key in self._found_from:  # asked before: the same answer, its dependencies recorded
+            target = self._found_from[key]
+            if target is not None and target.path in self._resident:
+                self._resident.move_to_end(target.path)
+            return target
+        target = self._found_from[key] = self.find_module(name, requester)
         if requester is not None:
             user = self._absolute(requester.path)
             used = self.dependencies.get(user)
