@@ -2,8 +2,6 @@
 
 from __future__ import annotations
 
-import unicodedata
-
 _ESCAPES = {"\n": "\\n", "\r": "\\r", "\t": "\\t"}
 
 
@@ -27,6 +25,8 @@ def _one_line(text: str) -> str:
 def _escape(char: str) -> str:
     if char in _ESCAPES:
         return _ESCAPES[char]
+    import unicodedata  # only for a message that needs escaping: most never do
+
     # control characters and the Unicode line and paragraph separators, which editors and
     # str.splitlines treat as line breaks; other characters (accents, spaces) stay as written
     if unicodedata.category(char) in ("Cc", "Zl", "Zp"):
