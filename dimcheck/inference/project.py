@@ -204,8 +204,9 @@ class Project:
         self._by_path: dict[str, LoadedModule] = {}
         # Where an absolute import is searched: the importing file's own root (the folder
         # above its outermost package), then the project's folder (the configuration's,
-        # else the current one) and its src/. This depends on the importing file alone,
-        # never on which other files a run names, so a cached result stays true.
+        # else the current one) and its src/ (for a module of an installed package, only
+        # its own root). This depends on the importing file alone, never on which other
+        # files a run names, so a cached result stays true.
         base = os.path.abspath(project_dir if project_dir is not None else os.getcwd())
         self._project_roots = tuple(dict.fromkeys([base, os.path.join(base, "src")]))
         self._root_of: dict[str, str] = {}  # module path -> its root
@@ -347,7 +348,9 @@ class Project:
             return self._project_roots
         roots = self._import_roots.get(own)
         if roots is None:
-            roots = self._import_roots[own] = tuple(dict.fromkeys([own, *self._project_roots]))
+            # an installed package imports from where it is installed, never from the project
+            installed = not _INSTALLED_FOLDERS.isdisjoint(own.split(os.sep))
+            roots = self._import_roots[own] = (own,) if installed else tuple(dict.fromkeys([own, *self._project_roots]))
         return roots
 
     def _file_of(self, name: str, requester: ModuleSymbols | None) -> str | None:
@@ -396,6 +399,8 @@ class Project:
             if not self.has_stub(name):
                 found = self._found.get((self.import_roots(requester), name))
                 for path in self.candidate_paths(name, self.import_roots(requester)):
+                    if path == found and not self._may_read(requester, path):
+                        break  # another installed package: never read, so never a dependency
                     used.add(path)
                     if path == found:
                         break
