@@ -29,7 +29,13 @@ def ignored_codes(line_text: str) -> frozenset[str] | None:
 
 def is_suppressed(code: str, line_text: str) -> bool:
     codes = ignored_codes(line_text)
-    return codes is not None and (codes is ALL_CODES or code in codes)
+    return codes is not None and (codes is ALL_CODES or covers(codes, code))
+
+
+def covers(codes, code: str) -> bool:
+    """Whether a list of codes names ``code``, in full or by a prefix (``DIM2``), as
+    ``--ignore`` reads them."""
+    return code in codes or any(code.startswith(listed) for listed in codes if listed)
 
 
 def _in_comment(line: str, position: int) -> bool:

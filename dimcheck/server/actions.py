@@ -9,7 +9,7 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 
-from ..declarations.suppressions import scan_line
+from ..declarations.suppressions import covers, scan_line
 
 # the same spelling as declarations/suppressions.py reads
 _IGNORE_LIST = re.compile(r"#\s*dimcheck:\s*ignore\[([A-Za-z0-9,\s]*)\]")
@@ -38,7 +38,7 @@ def suppression_edit(line: str, code: str) -> LineEdit | None:
     if listed is not None:
         inside = listed.group(1)
         codes = [part.strip().upper() for part in inside.split(",") if part.strip()]
-        if code in codes:
+        if covers(codes, code):
             return None
         close = listed.end(1)
         if not codes:

@@ -279,7 +279,9 @@ def test_suppression_comments():
             b = h + t  # dimcheck: ignore
             c = h + t  # dimcheck: ignore[DIM102, DIM103]
             d = h + 1  # dimcheck: ignore[DIM101]
-    """) == [(7, "DIM101"), (8, "DIM203")]
+            e = h + 1  # dimcheck: ignore[DIM2]
+            f = h + t  # dimcheck: ignore[DIM2]
+    """) == [(7, "DIM101"), (8, "DIM203"), (10, "DIM101")]
 
 
 def test_a_suppression_written_inside_a_string_is_not_a_comment():
