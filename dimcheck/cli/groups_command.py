@@ -144,7 +144,7 @@ def _function_variables(target: str, config, table, skip_undeclared: bool):
     from ..declarations.annotations import AliasRef, UnitText
     from ..inference.engine import Engine
     from ..inference.project import Project
-    from ..inference.values import Quantity
+    from ..inference.values import Quantity, TupleValue
     from ..units import UnitError, parse_unit
 
     path, qualname = _split_target(target)
@@ -188,6 +188,12 @@ def _function_variables(target: str, config, table, skip_undeclared: bool):
                 continue
             raise UsageError(f"{what} is annotated with '{shown}', which does not resolve to a unit "
                                    f"(declare one, or pass --skip-undeclared)")
+        if isinstance(value, TupleValue):  # tuple[Annotated[...], ...]: several values, not one
+            if skip_undeclared:
+                skipped.append(name)
+                continue
+            raise UsageError(f"{what} is a tuple of several units; give the variables as NAME=UNIT "
+                             f"instead, or pass --skip-undeclared")
         if not isinstance(value, Quantity) or value.dimension is None:
             raise UsageError(f"{what} has a unit that depends on other arguments "
                                    f"('{getattr(value, 'text', '')}'); "

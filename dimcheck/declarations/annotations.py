@@ -54,6 +54,16 @@ PLAIN_TYPES = frozenset({"float", "int", "complex", "bool", "Decimal", "Fraction
                          "ArrayLike", "float64", "float32", "Any"})
 
 
+class TupleSpec:
+    """``tuple[Annotated[float, "m"], Annotated[float, "s"]]``: a declaration for each
+    member of a tuple of fixed length (a member may declare nothing: None)."""
+
+    __slots__ = ("items",)
+
+    def __init__(self, items: tuple):
+        self.items = items
+
+
 def _name_of(node: ast.AST) -> str | None:
     if isinstance(node, ast.Name):
         return node.id
@@ -122,6 +132,8 @@ def read_annotation(node: ast.AST | None, _depth: int = 0) -> UnitText | AliasRe
             return read_annotation(elements[0], _depth + 1) if elements else None
         if head in ("Optional", "Final", "ClassVar"):
             return read_annotation(node.slice, _depth + 1)
+        if head in ("tuple", "Tuple") and isinstance(node.slice, ast.Tuple):
+            return _tuple_spec(node.slice.elts, _depth)
         if head == "Union" and isinstance(node.slice, ast.Tuple):
             return _first_of_union(node.slice.elts, _depth)
         return None
@@ -131,6 +143,15 @@ def read_annotation(node: ast.AST | None, _depth: int = 0) -> UnitText | AliasRe
         parts = dotted_name(node)
         return _alias_ref(parts) if parts and parts[-1] not in PLAIN_TYPES else None
     return None
+
+
+def _tuple_spec(members, depth: int) -> TupleSpec | None:
+    """The members' declarations, when at least one declares something; ``tuple[X, ...]``
+    (any length) declares no member."""
+    if any(isinstance(m, ast.Constant) and m.value is Ellipsis for m in members):
+        return None
+    items = tuple(read_annotation(member, depth + 1) for member in members)
+    return TupleSpec(items) if any(item is not None for item in items) else None
 
 
 def _first_of_union(members, depth: int):

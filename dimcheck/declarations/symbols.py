@@ -14,10 +14,10 @@ from collections.abc import Iterator
 from dataclasses import dataclass, field
 from functools import lru_cache
 
-from .annotations import AliasRef, SourceSpan, UnitText, read_annotation
+from .annotations import AliasRef, SourceSpan, TupleSpec, UnitText, read_annotation
 from .comments import CommentUnit
 
-UnitSpec = UnitText | AliasRef | None
+UnitSpec = UnitText | AliasRef | TupleSpec | None
 
 
 def _position(node) -> tuple[int, int, int, int]:

@@ -357,14 +357,14 @@ class Engine:
             else:
                 scope.run(node.body)
         value = merge_returns(scope.returns)
-        if isinstance(value, Quantity):
+        if isinstance(value, (Quantity, TupleValue)):
             # A kept result must not hold the operands a product's label is composed from.
             # Callers of a function with a declared return get the declaration, never this
             # value: keep that instead; otherwise compose the label now.
             declared = self.declared(function.module, function.return_spec)
-            if isinstance(declared, Quantity):
+            if isinstance(declared, (Quantity, TupleValue)):
                 value = declared
-            else:
+            elif isinstance(value, Quantity):
                 value.label
         # most functions have no problem: share one empty list rather than keep thousands
         return FunctionResult(value, scope.problems or _NO_PROBLEMS)
@@ -531,6 +531,8 @@ class Engine:
         if isinstance(returned, GenericUnit):
             result = returned.evaluate(bindings, self.resolver.lookup_unit)
             return result if result is not None else UNKNOWN
+        if isinstance(returned, TupleValue):
+            return returned  # tuple[Annotated[...], ...]: the members as declared
         if module.is_stub or "<record>" in function.decorators:
             # unknown in, unknown out: library calls alone never make a value known
             # a method of a stubbed class is asked of a known object: its instance or class

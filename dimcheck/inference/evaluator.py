@@ -309,6 +309,14 @@ class ScopeEvaluator:
             if isinstance(declared, Quantity):
                 self.report(node.value, checks.check_binding(
                     f"return value of {self.function.name}()", declared, value))
+            elif isinstance(declared, TupleValue) and isinstance(value, TupleValue) \
+                    and len(value.items) == len(declared.items):
+                # each member against its own declaration, reported where it is written
+                written = node.value.elts if isinstance(node.value, ast.Tuple) else [node.value] * len(value.items)
+                for position, (member, wanted, where) in enumerate(zip(value.items, declared.items, written), 1):
+                    if isinstance(wanted, Quantity):
+                        self.report(where, checks.check_binding(
+                            f"return value {position} of {self.function.name}()", wanted, member))
         self.returns.append(value)
         self._stopped = True
 

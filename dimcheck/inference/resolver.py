@@ -6,7 +6,7 @@ from __future__ import annotations
 import ast
 from collections import defaultdict
 
-from ..declarations.annotations import UnitText
+from ..declarations.annotations import TupleSpec, UnitText
 from ..declarations.symbols import ModuleSymbols
 from ..rules.checks import Problem
 from ..units import UnitError, parse_unit
@@ -14,7 +14,7 @@ from ..units.dimension import DIMENSIONLESS
 from .evaluator import Located
 from .generic import GenericSyntaxError, GenericUnit, parse_generic
 from .project import Project
-from .values import Origin, Quantity
+from .values import UNKNOWN, Origin, Quantity, TupleValue
 
 MAX_ALIAS_DEPTH = 12
 
@@ -39,6 +39,8 @@ class DeclarationResolver:
         known[spec] = None  # a cycle of aliases resolves to nothing
         if isinstance(spec, UnitText):
             result = self._unit_text(module, spec)
+        elif spec.__class__ is TupleSpec:
+            result = self._tuple(module, spec)
         else:
             result = self._alias(module, spec.parts, 0)
         known[spec] = result
@@ -66,6 +68,14 @@ class DeclarationResolver:
         scales = None if unit.scale is None else (unit.scale,)
         return Quantity(unit.dimension, scales, text, origin=origin, offset=unit.is_offset,
                         pint=spec.quantity_type)
+
+    def _tuple(self, module: ModuleSymbols, spec: TupleSpec) -> TupleValue | None:
+        """A tuple of declared members; None when no member resolves to a unit."""
+        items = []
+        for item in spec.items:
+            value = self.declared(module, item) if item is not None else None
+            items.append(value if isinstance(value, Quantity) else UNKNOWN)
+        return TupleValue(tuple(items)) if any(isinstance(item, Quantity) for item in items) else None
 
     def _declaration_problem(self, module: ModuleSymbols, node: ast.AST, message: str) -> None:
         located = Located(Problem("DIM901", message), module.path, node.lineno, node.col_offset,

@@ -160,6 +160,9 @@ def signature(engine, function: FunctionInfo) -> str:
         value = engine.declared(function.module, spec)
         if isinstance(value, Quantity):
             return value.display_unit()
+        if isinstance(value, TupleValue):  # tuple[Annotated[...], ...]
+            return "(" + ", ".join(item.display_unit() if isinstance(item, Quantity) else "?"
+                                   for item in value.items) + ")"
         text = getattr(value, "text", None)  # a stub's unit variable, "$X"
         return text if text is not None else "?"
 

@@ -34,13 +34,37 @@ def test_the_members_result_keeps_their_unit():
     ''') == [(4, "DIM101")]
 
 
-def test_numbers_in_a_returned_tuple_are_unknown_to_the_caller():
-    # the return annotation (a tuple of units) is not read, so the caller knows nothing;
-    # it must not see the literal 2.0 as a bare number (DIM203)
+def test_a_tuple_of_units_as_return_annotation_declares_each_member():
+    # a sluice gate opening: the height and the time it takes
+    assert codes('''\
+        from typing import Annotated, Tuple
+
+        def opening(lift: Annotated[float, "m"], speed: Annotated[float, "m/s"]
+                    ) -> tuple[Annotated[float, "m"], Annotated[float, "s"]]:
+            return lift, lift / speed
+
+        def swapped(lift: Annotated[float, "m"], speed: Annotated[float, "m/s"]
+                    ) -> Tuple[Annotated[float, "m"], Annotated[float, "s"]]:
+            return lift / speed, lift
+
+        def schedule(wait: Annotated[float, "s"]):
+            height, duration = opening(1.2, 0.1)
+            late = duration + wait        # s + s: clean
+            odd = height + wait           # DIM101
+            return opening(1.0, 0.1)[0] + wait   # DIM101
+
+        def any_length(n: int) -> tuple[float, ...]:
+            return (1.0,) * n
+    ''') == [(9, "DIM103"), (9, "DIM103"), (14, "DIM101"), (15, "DIM101")]
+
+
+def test_numbers_returned_in_a_tuple_are_unknown_to_the_caller_without_a_declaration():
+    # contract, section 2: a bare number takes the unit it is bound to; returned without
+    # a declaration, the caller knows nothing of it (never a bare number giving DIM203)
     assert codes('''\
         from typing import Annotated
 
-        def pair() -> tuple[Annotated[float, "m"], Annotated[float, "s"]]:
+        def pair():
             return 1.0, 2.0
 
         reach: Annotated[float, "m"] = 3.0
