@@ -29,5 +29,4 @@ def run(args) -> int:
         from .config import load_config
         load_config(args.config)  # a bad file is a one-line error and exit 2 now, not later
     from ..server.lsp import serve
-    serve(args.config)
-    return 0
+    return serve(args.config)

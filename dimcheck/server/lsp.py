@@ -279,8 +279,11 @@ def build_server(session: Session | None = None, change_delay: float = CHANGE_DE
     return server
 
 
-def serve(config_file: str | None = None) -> None:
-    """Speak LSP on stdin/stdout until the editor says exit."""
+def serve(config_file: str | None = None) -> int:
+    """Speak LSP on stdin/stdout until the editor says exit; the exit code is 0 after a
+    shutdown request, 1 when the editor said exit without one (as LSP asks)."""
     logging.basicConfig(level=os.environ.get("DIMCHECK_LOG_LEVEL", "WARNING").upper(),
                         format="dimcheck serve: %(levelname)s: %(message)s")
-    build_server(Session(config_file)).start_io()
+    server = build_server(Session(config_file))
+    server.start_io()
+    return 0 if getattr(server.protocol, "_shutdown", True) else 1

@@ -194,3 +194,14 @@ def test_shutdown_and_exit_end_the_process_cleanly(workspace):
         assert time.monotonic() - started < 10
     finally:
         lsp.close()
+
+
+def test_exit_without_shutdown_ends_with_code_1(workspace):
+    # LSP: the server exits with 1 when told to exit before a shutdown request
+    lsp = LspClient(workspace)
+    try:
+        lsp.initialize(workspace)
+        lsp.notify("exit", None)
+        assert lsp.process.wait(30) == 1
+    finally:
+        lsp.close()
