@@ -22,13 +22,13 @@ from ..declarations.symbols import (
 from ..rules import checks
 from ..rules.checks import Problem
 from ..rules.finding import display_path
-from .evaluator import MAX_EXPRESSION_DEPTH, STAR, Located, ScopeEvaluator, merge_values
+from .evaluator import MAX_EXPRESSION_DEPTH, STAR, Located, ScopeEvaluator, element_of, merge_values
 from .generic import GenericUnit
 from .pint_support import PintSupport, is_pint_stub
 from .project import Project
 from .resolver import DeclarationResolver
 from .values import (
-    RECURSION, UNKNOWN, Bare, ClassValue, FunctionValue, InstanceValue, ModuleValue,
+    RECURSION, UNKNOWN, Bare, ClassValue, FunctionValue, InstanceValue, IterableValue, ModuleValue,
     PintFactoryValue, PintMethodValue, PintRegistryValue, Quantity, TupleValue, Unknown,
 )
 
@@ -706,8 +706,22 @@ def _members_call(evaluator: ScopeEvaluator, node, args, keywords) -> Any:
     return first
 
 
-# Calls whose result the stub notation cannot express: the exponent's value matters, or
-# the members of one literal argument must agree.
+def _zip_call(evaluator: ScopeEvaluator, node, args, keywords) -> Any:
+    """``zip(a, b)``: each item is a tuple of one element of each (``for x, t in zip(...)``)."""
+    if not args or any(value is STAR for value, _ in args):
+        return UNKNOWN
+    return IterableValue(TupleValue(tuple(element_of(value) for value, _ in args)))
+
+
+def _enumerate_call(evaluator: ScopeEvaluator, node, args, keywords) -> Any:
+    """``enumerate(a)``: each item is (a count, an element of a)."""
+    if not args or args[0][0] is STAR:
+        return UNKNOWN
+    return IterableValue(TupleValue((UNKNOWN, element_of(args[0][0]))))
+
+
+# Calls whose result the stub notation cannot express: the exponent's value matters,
+# the members of one literal argument must agree, or the items of an iterator are tuples.
 _SPECIAL_CALLS = {
     ("numpy", "power"): _power_call,
     ("numpy", "float_power"): _power_call,
@@ -716,4 +730,6 @@ _SPECIAL_CALLS = {
     ("builtins", "min"): _members_call,
     ("builtins", "max"): _members_call,
     ("builtins", "sum"): _members_call,
+    ("builtins", "zip"): _zip_call,
+    ("builtins", "enumerate"): _enumerate_call,
 }

@@ -12,6 +12,7 @@ along their left spine, and anything nested deeper than a fixed budget is left u
 from __future__ import annotations
 
 import ast
+import math
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
 
@@ -21,11 +22,11 @@ from ..declarations.symbols import (
     name_spec, read_annotation, record_import,
 )
 from ..rules import checks
-from ..units.dimension import DIMENSIONLESS
+from ..units.dimension import DIMENSIONLESS, Dimension
 from ..rules.checks import Problem
 from .generic import raise_quantity
 from .values import (
-    UNKNOWN, Bare, ClassValue, FunctionValue, InstanceValue, ModuleValue, Quantity,
+    UNKNOWN, Bare, ClassValue, FunctionValue, InstanceValue, IterableValue, ModuleValue, Quantity,
     TupleValue, Unknown, exact_exponent, intersect_scales, literal_tolerance, quantity_product,
     scale_by_bare,
 )
@@ -102,6 +103,8 @@ def element_of(value: Any) -> Any:
     """The value of one element when iterating: arrays carry their unit per element."""
     if isinstance(value, Quantity):
         return value
+    if value.__class__ is IterableValue:  # zip(...), enumerate(...)
+        return value.element
     if isinstance(value, TupleValue) and value.items:
         result = value.items[0]
         for item in value.items[1:]:
@@ -576,6 +579,9 @@ class ScopeEvaluator:
             if op_type is ast.Mult or op_type is ast.Div:
                 return self._product(left, right, op_type is ast.Div)
         if isinstance(op, (ast.Add, ast.Sub)):
+            converted = _scale_zero_shift(left, right, isinstance(op, ast.Sub))
+            if converted is not None:
+                return converted
             verb = "add" if isinstance(op, ast.Add) else "subtract"
             self.report(node, checks.check_combination(verb, left, right)
                         or checks.check_offset_combination(verb, left, right))
@@ -814,6 +820,36 @@ _STAR = _Star()
 _NOT_BOUND = object()  # a name the environment does not hold
 STAR = _STAR
 _ONE = Quantity(DIMENSIONLESS, (1.0,), "1")
+
+
+_TEMPERATURE = Dimension.from_mapping({"temperature": 1})
+# The degree's size (in kelvin) -> the shift between its scale's zero and absolute zero,
+# and the units of the absolute and the offset scale of that size.
+_ZERO_SHIFTS = {1.0: (273.15, "K", "degC"), round(5 / 9, 12): (459.67, "degR", "degF")}
+
+
+def _scale_zero_shift(left: Any, right: Any, subtract: bool) -> Quantity | None:
+    """``t_c + 273.15`` (now in K) and ``t_k - 273.15`` (now in degC), and the same with
+    459.67 between degF and degR: the conversion DIM204 asks for, so no DIM203 for its
+    number. None for any other sum."""
+    if left.__class__ is Quantity and right.__class__ is Bare:
+        quantity, number = left, right.value
+    elif left.__class__ is Bare and right.__class__ is Quantity and not subtract:
+        quantity, number = right, left.value
+    else:
+        return None
+    if quantity.pint or quantity.dimension is not _TEMPERATURE or not quantity.scales \
+            or len(quantity.scales) != 1 or isinstance(number, bool) or not isinstance(number, (int, float)):
+        return None
+    shift = _ZERO_SHIFTS.get(round(quantity.scales[0], 12))
+    if shift is None or not math.isclose(abs(number), shift[0], rel_tol=1e-9):
+        return None
+    signed = -number if subtract else number
+    if quantity.offset and signed > 0:  # to the absolute scale
+        return quantity.replace(label=shift[1], derived=False, origin=None, offset=False)
+    if not quantity.offset and signed < 0:  # to the offset scale
+        return quantity.replace(label=shift[2], derived=False, origin=None, offset=True)
+    return None
 
 
 def _compatible(a: Any, b: Any) -> bool:

@@ -144,6 +144,16 @@ class TupleValue:
     items: tuple[Any, ...]
 
 
+class IterableValue:
+    """What ``zip(...)`` or ``enumerate(...)`` gives: an iterator whose every item holds
+    ``element`` (a tuple of the members' elements), for loops and comprehensions."""
+
+    __slots__ = ("element",)
+
+    def __init__(self, element: Any):
+        self.element = element
+
+
 @dataclass(slots=True)
 class FunctionValue:
     function: "FunctionInfo"

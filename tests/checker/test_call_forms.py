@@ -120,3 +120,52 @@ def test_pint_wraps_with_strict_false_takes_plain_numbers():
         lenient_too(2.0)
         strict(2.0)
     ''') == [(18, "DIM104")]
+
+
+def test_zip_and_enumerate_carry_the_elements_of_their_arguments():
+    # a tensile test log: elongations (m) and times (s) read in pairs
+    assert codes('''\
+        from typing import Annotated
+        import numpy as np
+
+        def log(stretch: Annotated[np.ndarray, "m"], times: Annotated[np.ndarray, "s"]):
+            for s, t in zip(stretch, times):
+                bad = s + t                                   # DIM101
+            for i, s in enumerate(stretch):
+                worse = s + times[i]                          # DIM101
+            rates: Annotated[np.ndarray, "m/s"] = np.array([s * t for s, t in zip(stretch, times)])
+            fine = [s / t for s, t in zip(stretch, times)]    # m/s, nothing to report
+            for k, (s, t) in enumerate(zip(stretch, times)):
+                also = s + t                                  # DIM101
+            return bad, worse, rates, fine, also
+    ''') == [(6, "DIM101"), (8, "DIM101"), (9, "DIM103"), (12, "DIM101")]
+
+
+def test_shifting_a_temperature_between_its_scale_and_absolute_zero_is_a_conversion():
+    # SI Brochure (BIPM, 9th ed.), 2.3.1: t/°C = T/K - 273.15; NIST SP 811 (2008), App. B.9:
+    # T/K = (t/°F + 459.67)/1.8, so degR = degF + 459.67. These are the conversions DIM204
+    # asks for: no DIM203 for their number, and the result is on the other scale.
+    assert codes('''\
+        from typing import Annotated
+
+        def to_celsius(t: Annotated[float, "K"]) -> Annotated[float, "degC"]:
+            return t - 273.15
+
+        def to_kelvin(t: Annotated[float, "degC"]) -> Annotated[float, "K"]:
+            return t + 273.15
+
+        def to_kelvin_too(t: Annotated[float, "degC"]) -> Annotated[float, "K"]:
+            return 273.15 + t
+
+        def to_rankine(t: Annotated[float, "degF"]) -> Annotated[float, "degR"]:
+            return t + 459.67
+
+        def radiated(t: Annotated[float, "degC"]) -> Annotated[float, "K^4"]:
+            return (t + 273.15) ** 4
+
+        def not_a_conversion(t: Annotated[float, "K"]) -> Annotated[float, "K"]:
+            return t + 273.15             # DIM203: kelvin has no zero to shift
+
+        def unconverted(t: Annotated[float, "K"]) -> Annotated[float, "degC"]:
+            return t                      # DIM204, as before
+    ''') == [(19, "DIM203"), (22, "DIM204")]
