@@ -131,7 +131,7 @@ class ScopeEvaluator:
     # are read on every node
     __slots__ = ("engine", "module", "env", "declared", "global_names", "function", "closure",
                  "baseline", "problems", "_seen", "returns", "_block_depth", "_expecting_error",
-                 "_stopped", "is_module_scope")
+                 "_stopped", "is_module_scope", "_power_laws")
 
     def __init__(self, engine: "Engine", module: "ModuleSymbols", env: dict | None = None,
                  function: FunctionInfo | None = None, closure: "ScopeEvaluator | None" = None,
@@ -151,6 +151,7 @@ class ScopeEvaluator:
         self._expecting_error = 0  # inside `with pytest.raises(...)`: the code is meant to fail
         self._stopped = False  # the rest of the block is not reached (return, raise, failing assert)
         self.is_module_scope = function is None and closure is None
+        self._power_laws: list = []  # DIM205 waiting for its statement's value (see settle_power_laws)
 
     # -- reporting --------------------------------------------------------------------
     def report(self, node: ast.AST, problem: Problem | None, chain: tuple[str, ...] = ()) -> None:
@@ -205,6 +206,19 @@ class ScopeEvaluator:
             handler(self, node)
         else:
             self._visit_children(node)
+        if self._power_laws:
+            self.settle_power_laws(None)
+
+    def settle_power_laws(self, value: Any) -> None:
+        """Report the DIM205 findings of a statement, unless the value the statement makes
+        has whole exponents only: then the fractional powers cancel within the formula
+        (a pump's specific speed, omega * sqrt(q) / (g * h) ** 0.75), and no coefficient
+        hides a unit."""
+        found, self._power_laws = self._power_laws, []
+        if isinstance(value, Quantity) and all(power.denominator == 1 for _, power in value.dimension.exponents):
+            return
+        for node, problem in found:
+            self.report(node, problem)
 
     def _visit_children(self, node: ast.AST) -> None:
         for child in ast.iter_child_nodes(node):
@@ -214,10 +228,11 @@ class ScopeEvaluator:
                 self.statement(child)
 
     def _stmt_Expr(self, node: ast.Expr) -> None:
-        self.expr(node.value)
+        self.settle_power_laws(self.expr(node.value))
 
     def _stmt_Assign(self, node: ast.Assign) -> None:
         value = self.expr(node.value)
+        self.settle_power_laws(value)
         spec = comment_spec(self.module, node.lineno, node.end_lineno or node.lineno)
         for target in node.targets:
             if spec is not None and isinstance(target, (ast.Name, ast.Attribute)):
@@ -238,6 +253,7 @@ class ScopeEvaluator:
 
     def _stmt_AnnAssign(self, node: ast.AnnAssign) -> None:
         value = self.expr(node.value) if node.value is not None else None
+        self.settle_power_laws(value)
         spec = read_annotation(node.annotation)
         if spec is None:
             spec = comment_spec(self.module, node.lineno, node.end_lineno or node.lineno)
@@ -306,6 +322,7 @@ class ScopeEvaluator:
 
     def _stmt_Return(self, node: ast.Return) -> None:
         value = self.expr(node.value) if node.value is not None else UNKNOWN
+        self.settle_power_laws(value)
         if self.function is not None and node.value is not None and self.function.pint_wrapper != "wraps":
             # (under pint's @wraps the declared unit is attached to whatever number comes back)
             declared = self.engine.declared(self.module, self.function.return_spec)
@@ -671,9 +688,13 @@ class ScopeEvaluator:
             constant = exponent.value
         elif isinstance(exponent, Unknown) and exponent.const is not None:
             constant = exponent.const
-        self.report(node, checks.check_exponent(base, exponent, constant is not None)
-                    or checks.check_power_law(base, exponent)
-                    or (checks.check_offset_product(base, exponent, power=True) if constant != 1 else None))
+        problem = checks.check_exponent(base, exponent, constant is not None)
+        power_law = checks.check_power_law(base, exponent) if problem is None else None
+        if power_law is not None:
+            self._power_laws.append((node, power_law))  # the whole formula decides (settle_power_laws)
+        else:
+            self.report(node, problem or (checks.check_offset_product(base, exponent, power=True)
+                                          if constant != 1 else None))
         if isinstance(base, Bare) and isinstance(exponent, Bare):
             try:
                 result = base.value ** exponent.value

@@ -349,6 +349,18 @@ def test_empirical_power_of_a_dimensional_value():
     """) == [(5, "DIM205")]
 
 
+def test_fractional_powers_that_cancel_within_the_formula_hide_no_coefficient():
+    # a pump's specific speed, omega * Q^(1/2) / (g*H)^(3/4), is dimensionless (common
+    # practice): the 3/4 power needs no coefficient with hidden units, so no DIM205
+    assert check("""\
+        def f(omega: Annotated[float, "rad/s"], q: Annotated[float, "m^3/s"], head: Annotated[float, "m"],
+              g: Annotated[float, "m/s^2"], u: Annotated[float, "m/s"], d: Annotated[float, "m"]):
+            speed = omega * math.sqrt(q) / (g * head) ** 0.75
+            film = 1430 * u ** 0.8 / d ** 0.2
+            return omega * q ** 0.5 / (g * head) ** 0.75
+    """) == [(7, "DIM205"), (7, "DIM205")]
+
+
 # -- fix hints -------------------------------------------------------------------------------
 
 def test_hints_name_quantity_kinds_and_missing_factor():
