@@ -181,10 +181,13 @@ def _feed_pint(registry, path: Path) -> dict[int, Path]:
     """pint's ``load_definitions``, step by step, so that an error names its file and line.
     Returns the file each definition came from, by ``id`` of the definition."""
     parser = getattr(registry, "_def_parser", None)
-    if parser is None or not hasattr(registry, "_helper_dispatch_adder"):
+    try:
+        import flexparser  # pint's own parser library (pint 0.24 and later)
+    except ImportError:
+        flexparser = None
+    if parser is None or flexparser is None or not hasattr(registry, "_helper_dispatch_adder"):
         registry.load_definitions(str(path))  # a pint laid out otherwise: no line numbers
         return {}
-    import flexparser
 
     parsed = parser.parse_file(str(path))
     # The first line pint could not parse, with the file it is in (an @import switches it).
