@@ -19,7 +19,8 @@ def ignored_codes(line_text: str) -> frozenset[str] | None:
     """Codes suppressed on a line: None when none, ``ALL_CODES`` for a bare ignore."""
     if "dimcheck" not in line_text:
         return None
-    match = next((found for found in _IGNORE.finditer(line_text) if _in_comment(line_text, found.start())), None)
+    comment_start, _ = scan_line(line_text)  # the same text inside a string suppresses nothing
+    match = _IGNORE.search(line_text, comment_start) if comment_start is not None else None
     if match is None:
         return None
     if match.group(1) is None:
@@ -29,25 +30,19 @@ def ignored_codes(line_text: str) -> frozenset[str] | None:
 
 def is_suppressed(code: str, line_text: str) -> bool:
     codes = ignored_codes(line_text)
-    return codes is not None and (codes is ALL_CODES or covers(codes, code))
+    return codes is not None and (codes is ALL_CODES or _covers(codes, code))
 
 
-def covers(codes, code: str) -> bool:
+def _covers(codes, code: str) -> bool:
     """Whether a list of codes names ``code``, in full or by a prefix (``DIM2``), as
     ``--ignore`` reads them."""
     return code in codes or any(code.startswith(listed) for listed in codes if listed)
 
 
-def _in_comment(line: str, position: int) -> bool:
-    """Whether ``position`` is inside the line's comment, not in a string literal such as
-    ``"# dimcheck: ignore"`` (strings opened on an earlier line are not seen)."""
-    start, _ = scan_line(line)
-    return start is not None and position >= start
-
-
 def scan_line(line: str) -> tuple[int | None, bool]:
     """Where the line's comment starts (None without one), and whether the line ends inside
-    a string literal that it opens (a triple-quoted one going on to the next line)."""
+    a string literal that it opens (a triple-quoted one going on to the next line). Strings
+    opened on an earlier line are not seen."""
     quote = None
     index = 0
     while index < len(line):

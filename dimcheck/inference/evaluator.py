@@ -647,7 +647,8 @@ class ScopeEvaluator:
         quantity, bare = (left, right) if isinstance(left, Quantity) else (right, left)
         if isinstance(quantity, Quantity) and isinstance(bare, Bare):
             if quantity.offset and not bare.is_zero:
-                # t_c + 273.15: most likely a conversion to kelvin; the zero is no longer known
+                # t_c + 5: the zero is no longer known (t_c + 273.15, a conversion to kelvin,
+                # never gets here: see _scale_zero_shift)
                 return quantity.replace(derived=True, origin=None, offset=False)
             return quantity
         return UNKNOWN

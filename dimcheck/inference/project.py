@@ -333,10 +333,7 @@ class Project:
         path = self._file_of(name, requester)
         if path is None:
             return None
-        loaded = self._by_path.get(path)
-        if loaded is None:
-            loaded = self.load(path)
-        symbols = loaded.symbols
+        symbols = self.load(path).symbols  # (read once: load remembers it by path)
         if symbols is not None and symbols.path in self._resident:
             self._resident.move_to_end(symbols.path)
         return symbols
@@ -397,13 +394,14 @@ class Project:
             if target is not None:
                 used.add(self._absolute(target.path))
             if not self.has_stub(name):
-                found = self._found.get((self.import_roots(requester), name))
-                for path in self.candidate_paths(name, self.import_roots(requester)):
-                    if path == found and not self._may_read(requester, path):
-                        break  # another installed package: never read, so never a dependency
-                    used.add(path)
+                roots = self.import_roots(requester)
+                found = self._found.get((roots, name))
+                for path in self.candidate_paths(name, roots):
                     if path == found:
+                        if self._may_read(requester, path):  # (another installed package never is)
+                            used.add(path)
                         break
+                    used.add(path)
         return target
 
     def _absolute(self, path: str) -> str:

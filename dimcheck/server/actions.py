@@ -9,11 +9,10 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 
-from ..declarations.suppressions import covers, scan_line
+from ..declarations.suppressions import is_suppressed, scan_line
 
-# the same spelling as declarations/suppressions.py reads
+# a list of codes, as declarations/suppressions.py reads it: where the edit adds one
 _IGNORE_LIST = re.compile(r"#\s*dimcheck:\s*ignore\[([A-Za-z0-9,\s]*)\]")
-_IGNORE_ALL = re.compile(r"#\s*dimcheck:\s*ignore(?!\[)")
 
 
 @dataclass(frozen=True)
@@ -29,24 +28,20 @@ def suppression_edit(line: str, code: str) -> LineEdit | None:
     """The edit that suppresses ``code`` on ``line``, or None when there is nothing to do
     (already suppressed) or no comment can go there (a backslash continues the line, or
     the line ends inside a string literal, where a comment would be text)."""
+    if is_suppressed(code, line):
+        return None
     comment_start, in_string = scan_line(line)
     if in_string:
         return None
-    if comment_start is None:
-        comment_start = len(line)  # only a comment's text counts: never a string's
-    listed = next((found for found in _IGNORE_LIST.finditer(line) if found.start() >= comment_start), None)
+    # only a comment's text counts, never a string's
+    listed = _IGNORE_LIST.search(line, comment_start) if comment_start is not None else None
     if listed is not None:
         inside = listed.group(1)
-        codes = [part.strip().upper() for part in inside.split(",") if part.strip()]
-        if covers(codes, code):
-            return None
         close = listed.end(1)
-        if not codes:
+        if not any(part.strip() for part in inside.split(",")):  # an empty list: the code is its first
             return LineEdit(listed.start(1), close, code)
         kept = inside.rstrip()
         return LineEdit(listed.start(1) + len(kept), close, f", {code}")
-    if any(found.start() >= comment_start for found in _IGNORE_ALL.finditer(line)):
-        return None
     content = line.rstrip()
     if not content or content.endswith("\\"):
         return None

@@ -20,6 +20,7 @@ from pathlib import Path
 from typing import Sequence
 
 from .errors import UnitError
+from .table_key import MAX_IMPORTS as _MAX_IMPORTS
 
 
 def load_definition_file(registry, path: Path) -> None:
@@ -63,7 +64,6 @@ def load_definition_file(registry, path: Path) -> None:
 # line has 133 characters, its largest exponent is 80, its deepest unit 117 paths down).
 _MAX_LINE_LENGTH = 1000
 _MAX_DEFINITION_EXPONENT = 999
-_MAX_IMPORTS = 64
 _MAX_UNIT_PATHS = 10_000
 
 _POWER_OPERATORS = ("**", "^")

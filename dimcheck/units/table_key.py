@@ -43,7 +43,7 @@ def definition_inputs(definition_files: Sequence[str | Path], extra_base_dimensi
 
 
 _IMPORT_LINE = re.compile(rb"^[ \t]*@import[ \t]+(\S+)", re.MULTILINE)
-_MAX_IMPORTED = 64  # as many as loading the files allows (definition_files.py)
+MAX_IMPORTS = 64  # @import statements followed, in all: here and when loading (definition_files.py)
 
 
 def _imported_contents(paths: Sequence[Path], contents: Sequence[bytes]) -> list[bytes]:
@@ -53,12 +53,12 @@ def _imported_contents(paths: Sequence[Path], contents: Sequence[bytes]) -> list
     found: list[bytes] = []
     seen = {os.path.realpath(path) for path in paths}
     pending = list(zip(paths, contents))
-    while pending and len(found) < _MAX_IMPORTED:
+    while pending and len(found) < MAX_IMPORTS:
         path, data = pending.pop(0)
         for match in _IMPORT_LINE.finditer(data):
             target = path.parent / os.fsdecode(match.group(1))
             real = os.path.realpath(target)
-            if real in seen or len(found) >= _MAX_IMPORTED:
+            if real in seen or len(found) >= MAX_IMPORTS:
                 continue
             seen.add(real)
             try:
